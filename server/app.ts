@@ -1,0 +1,144 @@
+/**
+ * The Express application factory. It holds no state of its own: everything lives in the
+ * database, so several instances can serve behind a load balancer. Tests mount it directly.
+ */
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+import express, { type ErrorRequestHandler, type Express } from 'express';
+import helmet from 'helmet';
+import multer from 'multer';
+import { pinoHttp } from 'pino-http';
+import type { Config } from './config.js';
+import { isDbUnavailable, type Db } from './db.js';
+import { HttpError } from './lib/errors.js';
+import { mount, type RegisteredRoute, type RouteSpec } from './lib/http.js';
+import type { Logger } from './lib/logger.js';
+import { healthRoutes } from './routes/health.js';
+import { openapiRoutes } from './routes/openapi.js';
+
+export interface AppDeps {
+  config: Config;
+  db: Db;
+  logger: Logger;
+}
+
+export const API_PREFIX = '/api/v1';
+const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+
+export function createApp(deps: AppDeps): Express & { locals: { routes: RegisteredRoute[] } } {
+  const { config, logger } = deps;
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', config.trustProxy);
+  app.set('query parser', 'simple');
+
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        useDefaults: false,
+        directives: {
+          defaultSrc: ["'self'"],
+          scriptSrc: ["'self'"],
+          // ECharts and the table layout set element styles; no inline <style> or script is needed.
+          styleSrc: ["'self'", "'unsafe-inline'"],
+          imgSrc: ["'self'", 'data:', 'blob:'],
+          fontSrc: ["'self'"],
+          connectSrc: ["'self'"],
+          objectSrc: ["'none'"],
+          baseUri: ["'self'"],
+          formAction: ["'self'"],
+          frameAncestors: ["'none'"],
+          workerSrc: ["'self'", 'blob:'],
+        },
+      },
+      crossOriginEmbedderPolicy: false,
+      strictTransportSecurity: config.publicOrigin.startsWith('https://'),
+    }),
+  );
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => req.url === '/api/v1/health' },
+      serializers: {
+        req: (req) => ({ id: req.id, method: req.method, url: req.url }),
+        res: (res) => ({ statusCode: res.statusCode }),
+      },
+      customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+    }),
+  );
+
+  const routes: RegisteredRoute[] = [];
+  const api = express.Router();
+  api.use(express.json({ limit: config.maxJsonBytes, strict: true }));
+
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config)];
+  for (const specs of groups) mount(api, API_PREFIX, specs, routes);
+
+  api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));
+  app.use(API_PREFIX, api);
+  app.use('/api', (req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.originalUrl}; the API lives under ${API_PREFIX}.`)));
+
+  const staticDir = config.staticDir ?? path.join(root, 'dist', 'client');
+  if (fs.existsSync(path.join(staticDir, 'index.html'))) {
+    app.use('/assets', express.static(path.join(staticDir, 'assets'), { immutable: true, maxAge: '1y', fallthrough: false }));
+    app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
+    const indexHtml = path.join(staticDir, 'index.html');
+    app.use((req, res, next) => {
+      if (req.method !== 'GET' && req.method !== 'HEAD') return next();
+      res.setHeader('Cache-Control', 'no-cache');
+      res.sendFile(indexHtml);
+    });
+  }
+
+  app.use(errorHandler(logger, config));
+  app.locals.routes = routes;
+  return app as Express & { locals: { routes: RegisteredRoute[] } };
+}
+
+function errorHandler(logger: Logger, config: Config): ErrorRequestHandler {
+  return (err, req, res, _next) => {
+    let status = 500;
+    let code = 'internal_error';
+    let message = 'Something went wrong on the server. The error was logged; try again, and tell an administrator if it persists.';
+    let details: unknown;
+    let headers: Record<string, string> | undefined;
+    if (err instanceof HttpError) {
+      ({ status, code, message, details, headers } = err);
+    } else if (err?.type === 'entity.too.large') {
+      status = 413;
+      code = 'too_large';
+      message = `The request body is larger than the limit of ${Math.round(config.maxJsonBytes / 1048576)} MB; send less data per request.`;
+    } else if (err?.type === 'entity.parse.failed') {
+      status = 400;
+      code = 'invalid_json';
+      message = 'The request body is not valid JSON.';
+    } else if (err?.type === 'charset.unsupported' || err?.type === 'encoding.unsupported') {
+      status = 415;
+      code = 'unsupported_encoding';
+      message = 'Send the request body as UTF-8 JSON.';
+    } else if (err instanceof multer.MulterError) {
+      if (err.code === 'LIMIT_FILE_SIZE') {
+        status = 413;
+        code = 'file_too_large';
+        message = `The file is larger than the limit of ${Math.round(config.maxUploadBytes / 1048576)} MB.`;
+      } else {
+        status = 400;
+        code = 'invalid_upload';
+        message = `The upload is not valid (${err.message}); send one file in the field "file".`;
+      }
+    } else if (isDbUnavailable(err)) {
+      status = 503;
+      code = 'database_unavailable';
+      message = 'The database is not reachable right now. Nothing was changed; try again in a moment.';
+      headers = { 'Retry-After': '5' };
+    }
+    if (status >= 500) (req.log ?? logger).error({ err }, 'request failed');
+    if (res.headersSent) {
+      res.destroy();
+      return;
+    }
+    if (headers) res.set(headers);
+    res.status(status).json({ error: { code, message, ...(details === undefined ? {} : { details }) } });
+  };
+}

@@ -1,0 +1,73 @@
+import { z } from 'zod';
+import type { Config } from '../config.js';
+import type { RegisteredRoute, RouteSpec } from '../lib/http.js';
+import { version } from '../lib/version.js';
+
+function jsonSchema(schema: z.ZodType | undefined) {
+  if (!schema) return undefined;
+  try {
+    return z.toJSONSchema(schema, { io: 'input', unrepresentable: 'any' });
+  } catch {
+    return { type: 'object' };
+  }
+}
+
+/** The OpenAPI 3.1 document, built from the route table so it cannot drift from the code. */
+export function buildOpenApi(routes: RegisteredRoute[], config: Config) {
+  const paths: Record<string, Record<string, unknown>> = {};
+  for (const r of routes) {
+    const p = r.fullPath.replace(/:(\w+)/g, '{$1}');
+    const params = [...r.fullPath.matchAll(/:(\w+)/g)].map((m) => ({ name: m[1], in: 'path', required: true, schema: { type: 'string' } }));
+    const access = r.access === 'public' ? 'anyone' : r.access === 'signedIn' ? 'signed in' : `roles: ${r.access.join(', ')}`;
+    (paths[p] ??= {})[r.method] = {
+      summary: r.summary,
+      description: `Access: ${access}.`,
+      tags: r.tags,
+      parameters: params.length ? params : undefined,
+      security: r.access === 'public' ? [] : [{ session: [] }, { bearer: [] }],
+      requestBody: r.body ? { required: true, content: { 'application/json': { schema: jsonSchema(r.body) } } } : undefined,
+      responses: {
+        [String(r.status ?? 200)]: { description: 'Success' },
+        default: { description: 'Error', content: { 'application/json': { schema: { $ref: '#/components/schemas/Error' } } } },
+      },
+    };
+  }
+  return {
+    openapi: '3.1.0',
+    info: { title: 'Tidegauge API', version, description: 'Trend–cycle decompositions, vintages and publication review.' },
+    servers: [{ url: `${config.publicOrigin}/api/v1` }],
+    paths,
+    components: {
+      securitySchemes: {
+        session: { type: 'apiKey', in: 'cookie', name: 'tg_session' },
+        bearer: { type: 'http', scheme: 'bearer' },
+      },
+      schemas: {
+        Error: {
+          type: 'object',
+          required: ['error'],
+          properties: {
+            error: {
+              type: 'object',
+              required: ['code', 'message'],
+              properties: { code: { type: 'string' }, message: { type: 'string' }, details: {} },
+            },
+          },
+        },
+      },
+    },
+  };
+}
+
+export function openapiRoutes(getRoutes: () => RegisteredRoute[], config: Config): RouteSpec[] {
+  return [
+    {
+      method: 'get',
+      path: '/openapi.json',
+      access: 'public',
+      summary: 'This API as an OpenAPI 3.1 document',
+      tags: ['system'],
+      handler: () => buildOpenApi(getRoutes(), config),
+    },
+  ];
+}

@@ -1,0 +1,21 @@
+import { useQuery } from '@tanstack/react-query';
+import { api } from '@/lib/api';
+
+export interface Health {
+  status: 'ok' | 'unavailable';
+  version: string;
+  db: { ok: boolean; version?: string };
+}
+
+/** Reads /health; a 503 still carries the body, so it is returned rather than thrown. */
+export function useHealth() {
+  return useQuery({
+    queryKey: ['health'],
+    queryFn: async (): Promise<Health> => {
+      const res = await fetch('/api/v1/health', { headers: { Accept: 'application/json' } });
+      return (await res.json()) as Health;
+    },
+    refetchInterval: 30_000,
+    retry: false,
+  });
+}

@@ -1,0 +1,49 @@
+/** Debian's Chromium driven by playwright-core, headless, with a fresh profile for every test file. */
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+
+export const CHROMIUM_ARGS = [
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--no-first-run',
+  '--disable-quic',
+  '--disable-dev-shm-usage',
+];
+
+export interface BrowserSession {
+  context: BrowserContext;
+  page: Page;
+  downloadsDir: string;
+  close(): Promise<void>;
+}
+
+export async function openBrowser(): Promise<BrowserSession> {
+  const userDataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidegauge-chromium-'));
+  const downloadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tidegauge-downloads-'));
+  const context = await chromium.launchPersistentContext(userDataDir, {
+    executablePath: process.env.CHROMIUM_PATH || '/usr/bin/chromium',
+    headless: true,
+    args: CHROMIUM_ARGS,
+    acceptDownloads: true,
+    downloadsPath: downloadsDir,
+    viewport: { width: 1400, height: 1000 },
+  });
+  const page = context.pages()[0] ?? (await context.newPage());
+  const errors: string[] = [];
+  page.on('pageerror', (e) => errors.push(String(e)));
+  return {
+    context,
+    page,
+    downloadsDir,
+    async close() {
+      await context.close();
+      fs.rmSync(userDataDir, { recursive: true, force: true });
+      fs.rmSync(downloadsDir, { recursive: true, force: true });
+    },
+  };
+}
