@@ -1,5 +1,4 @@
 import { useQuery } from '@tanstack/react-query';
-import { api } from '@/lib/api';
 
 export interface Health {
   status: 'ok' | 'unavailable';
