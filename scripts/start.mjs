@@ -32,11 +32,14 @@ try {
   await shutdown(1);
 }
 
-const server = spawn(process.execPath, tsxArgs('server/main.ts'), {
-  cwd: root,
-  stdio: 'inherit',
-  env: { ...process.env, DATABASE_URL: db.url, NODE_ENV: process.env.NODE_ENV || 'production' },
-});
+const env = { ...process.env, DATABASE_URL: db.url, NODE_ENV: process.env.NODE_ENV || 'production' };
+if (!env.SMTP_URL && !env.MAIL_MODE) {
+  // No mail server configured: keep invitations and resets working on this machine by catching
+  // every message in the local fake mail server (admins read them on the Mailbox page).
+  env.MAIL_MODE = 'fake';
+  log('SMTP_URL is not set: e-mail goes to the local fake mail server (Mailbox page). Set SMTP_URL to send real mail.');
+}
+const server = spawn(process.execPath, tsxArgs('server/main.ts'), { cwd: root, stdio: 'inherit', env });
 
 // Ctrl-C reaches the server directly (same process group); we wait for it, then stop MariaDB.
 for (const signal of ['SIGINT', 'SIGTERM']) {

@@ -14,20 +14,40 @@ import { isDbUnavailable, type Db } from './db.js';
 import { HttpError } from './lib/errors.js';
 import { mount, type RegisteredRoute, type RouteSpec } from './lib/http.js';
 import type { Logger } from './lib/logger.js';
+import { createLucia, type AppLucia } from './auth/lucia.js';
+import { authenticate, originCheck } from './auth/middleware.js';
+import { createMailer, type Mailer } from './mail/mailer.js';
+import type { FakeMailServer } from './mail/fake-smtp.js';
+import { authRoutes } from './routes/auth.js';
 import { healthRoutes } from './routes/health.js';
 import { openapiRoutes } from './routes/openapi.js';
+import { peopleRoutes } from './routes/people.js';
 
-export interface AppDeps {
+export interface AppOptions {
   config: Config;
   db: Db;
   logger: Logger;
+  /** Outgoing mail; made from the configuration when not given. */
+  mailer?: Mailer;
+  /** The local fake mail server, when one runs (development and tests): feeds the Mailbox page. */
+  mailbox?: FakeMailServer;
+}
+
+export interface AppDeps extends AppOptions {
+  mailer: Mailer;
+  lucia: AppLucia;
 }
 
 export const API_PREFIX = '/api/v1';
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
-export function createApp(deps: AppDeps): Express & { locals: { routes: RegisteredRoute[] } } {
-  const { config, logger } = deps;
+export function createApp(options: AppOptions): Express & { locals: { routes: RegisteredRoute[] } } {
+  const { config, logger, db } = options;
+  const deps: AppDeps = {
+    ...options,
+    mailer: options.mailer ?? createMailer(config, logger, options.mailbox?.port),
+    lucia: createLucia(db, config.sessionIdleHours, config.publicOrigin.startsWith('https://')),
+  };
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', config.trustProxy);
@@ -71,8 +91,10 @@ export function createApp(deps: AppDeps): Express & { locals: { routes: Register
   const routes: RegisteredRoute[] = [];
   const api = express.Router();
   api.use(express.json({ limit: config.maxJsonBytes, strict: true }));
+  api.use(authenticate(db, deps.lucia));
+  api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));

@@ -26,7 +26,15 @@ export function createDb(databaseUrl: string, poolMax = 20): Db {
       // DOUBLE columns come back as numbers; DECIMAL is not used.
       decimalNumbers: true,
     },
-    pool: { min: 0, max: poolMax, idleTimeoutMillis: 30_000 },
+    pool: {
+      min: 0,
+      max: poolMax,
+      idleTimeoutMillis: 30_000,
+      // Every connection works in UTC, so DEFAULT NOW(3) and JavaScript dates agree.
+      afterCreate(conn: { query: (sql: string, cb: (err: Error | null) => void) => void }, done: (err: Error | null, conn: unknown) => void) {
+        conn.query("SET time_zone = '+00:00'", (err) => done(err, conn));
+      },
+    },
     // Fail fast when the database is away: requests answer 503 instead of hanging.
     acquireConnectionTimeout: 5000,
     // Connection failures surface as request errors (503) and in the health check; knex's own

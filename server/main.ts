@@ -3,6 +3,7 @@ import { createApp } from './app.js';
 import { ConfigError, loadConfig } from './config.js';
 import { createDb } from './db.js';
 import { createLogger } from './lib/logger.js';
+import { startFakeMailServer, type FakeMailServer } from './mail/fake-smtp.js';
 
 let config;
 try {
@@ -17,7 +18,17 @@ try {
 
 const logger = createLogger(config.logLevel);
 const db = createDb(config.databaseUrl, config.dbPoolMax);
-const app = createApp({ config, db, logger });
+// The fake mail server runs with the app in development and tests only (config refuses it in production).
+let mailbox: FakeMailServer | undefined;
+if (config.mail.mode === 'fake') {
+  try {
+    mailbox = await startFakeMailServer(config.mail.fakePort);
+    logger.info(`fake mail server on 127.0.0.1:${mailbox.port}; messages appear on the Mailbox page`);
+  } catch (error) {
+    logger.warn({ err: error }, `the fake mail server could not listen on port ${config.mail.fakePort}; set FAKE_SMTP_PORT`);
+  }
+}
+const app = createApp({ config, db, logger, mailbox });
 
 const server = app.listen(config.port, config.host, () => {
   logger.info(`Tidegauge is serving on http://${config.host}:${config.port}`);
@@ -33,7 +44,7 @@ async function close(signal: string) {
   server.close();
   server.closeIdleConnections?.();
   setTimeout(() => process.exit(0), 5000).unref();
-  await db.destroy().catch(() => {});
+  await Promise.allSettled([db.destroy(), mailbox?.close()]);
   process.exit(0);
 }
 process.on('SIGINT', () => void close('SIGINT'));

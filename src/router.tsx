@@ -1,19 +1,33 @@
 import { createBrowserRouter } from 'react-router-dom';
 import { Layout } from '@/components/Layout';
+import { AcceptInvitationPage } from '@/features/auth/AcceptInvitationPage';
+import { ForgotPasswordPage, ResetPasswordPage } from '@/features/auth/PasswordPages';
+import { RequireRole } from '@/features/auth/RequireRole';
+import { SignInPage } from '@/features/auth/SignInPage';
+import { MailboxPage } from '@/features/people/MailboxPage';
+import { PeoplePage } from '@/features/people/PeoplePage';
+import { ProfilePage } from '@/features/profile/ProfilePage';
 import { HomePage } from '@/routes/HomePage';
 import { NotFoundPage } from '@/routes/NotFoundPage';
 import { PlaceholderPage } from '@/routes/PlaceholderPage';
 
 export const router = createBrowserRouter([
+  { path: '/sign-in', element: <SignInPage /> },
+  { path: '/forgot-password', element: <ForgotPasswordPage /> },
+  { path: '/reset-password/:token', element: <ResetPasswordPage /> },
+  { path: '/invite/:token', element: <AcceptInvitationPage /> },
   {
     element: <Layout />,
     children: [
       { index: true, element: <HomePage /> },
       { path: 'catalogue/*', element: <PlaceholderPage title="Catalogue" /> },
-      { path: 'studies/*', element: <PlaceholderPage title="Studies" /> },
+      { path: 'studies/*', element: <RequireRole roles={['economist', 'editor', 'admin']}><PlaceholderPage title="Studies" /></RequireRole> },
       { path: 'boards/*', element: <PlaceholderPage title="Boards" /> },
-      { path: 'review/*', element: <PlaceholderPage title="Review desk" /> },
-      { path: 'people/*', element: <PlaceholderPage title="People" /> },
+      { path: 'exhibits/*', element: <PlaceholderPage title="Exhibits" /> },
+      { path: 'review/*', element: <RequireRole roles={['editor']}><PlaceholderPage title="Review desk" /></RequireRole> },
+      { path: 'people', element: <RequireRole roles={['admin']}><PeoplePage /></RequireRole> },
+      { path: 'people/mailbox', element: <RequireRole roles={['admin']}><MailboxPage /></RequireRole> },
+      { path: 'profile', element: <ProfilePage /> },
       { path: '*', element: <NotFoundPage /> },
     ],
   },

@@ -47,6 +47,7 @@ declare module 'express-serve-static-core' {
 export function guard(access: Access): RequestHandler {
   return (req, _res, next) => {
     if (access === 'public') return next();
+    if (req.authError) return next(req.authError);
     const auth = req.auth;
     if (!auth) return next(unauthorized());
     if (access === 'signedIn') return next();

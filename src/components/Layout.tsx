@@ -1,15 +1,35 @@
-import { NavLink, Outlet } from 'react-router-dom';
+import { Navigate, NavLink, Outlet, useLocation } from 'react-router-dom';
+import type { Role } from '@schemas/auth';
 import { StatusLine } from '@/features/system/StatusLine';
+import { hasRole, useMe, useSignOut } from '@/features/auth/api';
+import { Spinner } from './ui';
 
-const NAV = [
+/** Navigation; each entry is shown only to the roles that can use it. */
+export const NAV: { to: string; label: string; roles?: Role[] }[] = [
   { to: '/catalogue', label: 'Catalogue' },
-  { to: '/studies', label: 'Studies' },
+  { to: '/studies', label: 'Studies', roles: ['economist', 'editor', 'admin'] },
   { to: '/boards', label: 'Boards' },
-  { to: '/review', label: 'Review desk' },
-  { to: '/people', label: 'People' },
+  { to: '/exhibits', label: 'Exhibits' },
+  { to: '/review', label: 'Review desk', roles: ['editor'] },
+  { to: '/people', label: 'People', roles: ['admin'] },
 ];
 
 export function Layout() {
+  const me = useMe();
+  const location = useLocation();
+  const signOut = useSignOut();
+  if (me.isPending) {
+    return (
+      <div className="flex min-h-screen items-center justify-center">
+        <Spinner />
+      </div>
+    );
+  }
+  if (!me.data) {
+    const next = encodeURIComponent(location.pathname + location.search);
+    return <Navigate to={`/sign-in?next=${next}`} replace />;
+  }
+  const user = me.data;
   return (
     <div className="flex min-h-screen flex-col">
       <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:bg-paper-card focus:p-2">
@@ -21,19 +41,25 @@ export function Layout() {
             <img src="/favicon.svg" alt="" className="h-7 w-7" />
             <span className="font-heading text-lg font-bold tracking-tight">Tidegauge</span>
           </NavLink>
-          <nav aria-label="Main" className="flex gap-1">
-            {NAV.map((item) => (
+          <nav aria-label="Main" className="flex flex-1 gap-1">
+            {NAV.filter((item) => !item.roles || hasRole(user, ...item.roles)).map((item) => (
               <NavLink
                 key={item.to}
                 to={item.to}
-                className={({ isActive }) =>
-                  `rounded px-3 py-1.5 text-sm font-semibold ${isActive ? 'bg-ink text-paper' : 'text-ink-soft hover:bg-paper-deep hover:text-ink'}`
-                }
+                className={({ isActive }) => `rounded px-3 py-1.5 text-sm font-semibold ${isActive ? 'bg-ink text-paper' : 'text-ink-soft hover:bg-paper-deep hover:text-ink'}`}
               >
                 {item.label}
               </NavLink>
             ))}
           </nav>
+          <div className="flex items-center gap-3 text-sm">
+            <NavLink to="/profile" className="text-ink-soft hover:text-ink" data-testid="user-menu">
+              {user.name}
+            </NavLink>
+            <button className="btn-quiet" onClick={() => signOut.mutate()}>
+              Sign out
+            </button>
+          </div>
         </div>
       </header>
       <main id="main" className="mx-auto w-full max-w-7xl flex-1 px-6 py-8">
@@ -42,7 +68,7 @@ export function Layout() {
       <footer className="border-t border-hairline">
         <div className="mx-auto flex max-w-7xl items-center justify-between px-6 py-2">
           <StatusLine />
-          <span className="text-xs text-ink-faint">Estimates are inputs to judgement.</span>
+          <span className="text-xs text-ink-faint">Estimates are inputs to judgement, not a basis for decisions on their own.</span>
         </div>
       </footer>
     </div>

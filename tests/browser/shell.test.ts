@@ -1,37 +1,46 @@
-import type { Server } from 'node:http';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { listen, makeTestApp, type TestApp } from '../helpers/app.js';
-import { openBrowser, type BrowserSession } from '../helpers/browser.js';
+import { startServer, type TestServer } from '../helpers/app.js';
+import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser.js';
 
-let t: TestApp;
-let server: Server;
-let base: string;
+let t: TestServer;
 let browser: BrowserSession;
 
 beforeAll(async () => {
-  t = await makeTestApp();
-  ({ server, url: base } = await listen(t.app));
+  t = await startServer({}, { seedDemo: true });
   browser = await openBrowser();
 });
 afterAll(async () => {
   await browser?.close();
-  server?.close();
   await t?.close();
 });
 
 describe('the application shell in Chromium', () => {
-  it('renders the header and the health status read from the API', async () => {
+  it('shows the health status read from the API on the sign-in page and in the shell', async () => {
     const { page } = browser;
-    await page.goto(base + '/');
+    await page.goto(t.url + '/');
+    await page.waitForURL(/\/sign-in\?next=/);
     await expect.poll(() => page.getByTestId('health-status').getAttribute('data-state'), { timeout: 15_000 }).toBe('ok');
-    const text = await page.getByTestId('health-status').innerText();
-    expect(text).toMatch(/database online/i);
-    expect(await page.locator('header').innerText()).toContain('Tidegauge');
+    await signInAs(page, t.url, 'admin@demo.test');
+    await expect.poll(() => page.getByTestId('health-status').getAttribute('data-state'), { timeout: 15_000 }).toBe('ok');
+    expect(await page.getByTestId('health-status').innerText()).toMatch(/database online/i);
+    const nav = await page.getByRole('navigation', { name: 'Main' }).innerText();
+    for (const item of ['Catalogue', 'Studies', 'Boards', 'People']) expect(nav).toContain(item);
   });
 
   it('shows the not-found page for an unknown address', async () => {
     const { page } = browser;
-    await page.goto(base + '/no/such/page');
+    await page.goto(t.url + '/no/such/page');
     await expect.poll(() => page.locator('h1').innerText()).toMatch(/does not exist/);
+  });
+
+  it('runs under the Content-Security-Policy without violations', async () => {
+    const { page } = browser;
+    const violations: string[] = [];
+    page.on('console', (m) => {
+      if (/Content Security Policy|Refused to/i.test(m.text())) violations.push(m.text());
+    });
+    await page.goto(t.url + '/catalogue');
+    await page.getByTestId('user-menu').waitFor();
+    expect(violations).toEqual([]);
   });
 });

@@ -47,3 +47,16 @@ export async function openBrowser(): Promise<BrowserSession> {
     },
   };
 }
+
+export async function signInAs(page: Page, base: string, email: string, password = 'tidegauge-demo') {
+  await page.goto(`${base}/sign-in`);
+  await page.getByLabel('E-mail').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.getByTestId('user-menu').waitFor({ timeout: 15_000 });
+}
+
+export async function signOut(page: Page) {
+  await page.getByRole('button', { name: 'Sign out' }).click();
+  await page.waitForURL(/sign-in/, { timeout: 15_000 });
+}

@@ -1,0 +1,97 @@
+/** Small shared pieces of the interface. */
+import type { ReactNode } from 'react';
+import { ApiError } from '@/lib/api';
+
+export function ErrorNote({ error, title }: { error: unknown; title?: string }) {
+  if (!error) return null;
+  const message = error instanceof ApiError || error instanceof Error ? error.message : String(error);
+  const details = error instanceof ApiError && Array.isArray(error.details) ? (error.details as { row?: number; column?: string; path?: string; message: string }[]) : [];
+  return (
+    <div role="alert" className="rounded border border-alert/40 bg-alert-light px-3 py-2 text-sm text-alert">
+      {title && <p className="font-semibold">{title}</p>}
+      <p>{message}</p>
+      {details.length > 0 && (
+        <ul className="mt-1 list-disc pl-5">
+          {details.slice(0, 8).map((d, i) => (
+            <li key={i}>
+              {d.row ? `Row ${d.row}${d.column ? `, ${d.column}` : ''}: ` : d.path ? `${d.path}: ` : ''}
+              {d.message}
+            </li>
+          ))}
+          {details.length > 8 && <li>…and {details.length - 8} more</li>}
+        </ul>
+      )}
+    </div>
+  );
+}
+
+export function Spinner({ label = 'Loading…' }: { label?: string }) {
+  return (
+    <span role="status" className="inline-flex items-center gap-2 text-sm text-ink-soft">
+      <span className="h-3.5 w-3.5 animate-spin rounded-full border-2 border-hairline-strong border-t-trend" aria-hidden />
+      {label}
+    </span>
+  );
+}
+
+export function EmptyState({ title, children }: { title: string; children?: ReactNode }) {
+  return (
+    <div className="card px-6 py-10 text-center">
+      <p className="font-heading text-lg text-ink">{title}</p>
+      {children && <div className="mx-auto mt-2 max-w-md text-sm text-ink-soft">{children}</div>}
+    </div>
+  );
+}
+
+export function Field({ label, error, hint, children, htmlFor }: { label: string; error?: string; hint?: ReactNode; children: ReactNode; htmlFor?: string }) {
+  return (
+    <div>
+      <label className="label" htmlFor={htmlFor}>
+        {label}
+      </label>
+      {children}
+      {hint && !error && <p className="mt-1 text-xs text-ink-faint">{hint}</p>}
+      {error && (
+        <p className="mt-1 text-xs font-semibold text-alert" role="alert">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}
+
+export function PageHeader({ title, kicker, actions, children }: { title: ReactNode; kicker?: ReactNode; actions?: ReactNode; children?: ReactNode }) {
+  return (
+    <div className="mb-6 flex flex-wrap items-end justify-between gap-4 border-b border-hairline pb-4">
+      <div>
+        {kicker && <p className="text-xs font-semibold uppercase tracking-wide text-ink-faint">{kicker}</p>}
+        <h1 className="page-title">{title}</h1>
+        {children && <div className="mt-1 text-sm text-ink-soft">{children}</div>}
+      </div>
+      {actions && <div className="flex flex-wrap gap-2">{actions}</div>}
+    </div>
+  );
+}
+
+export function Progress({ value, label }: { value: number | null; label: string }) {
+  const pct = value === null ? null : Math.round(Math.max(0, Math.min(1, value)) * 100);
+  return (
+    <div className="w-full">
+      <div className="mb-1 flex justify-between text-xs text-ink-soft">
+        <span>{label}</span>
+        {pct !== null && <span className="num">{pct}%</span>}
+      </div>
+      <div className="h-2 w-full overflow-hidden rounded bg-paper-deep" role="progressbar" aria-label={label} aria-valuemin={0} aria-valuemax={100} aria-valuenow={pct ?? undefined}>
+        <div className={`h-full bg-trend transition-all ${pct === null ? 'w-1/3 animate-pulse' : ''}`} style={pct === null ? undefined : { width: `${pct}%` }} />
+      </div>
+    </div>
+  );
+}
+
+export function formatDate(iso: string | null | undefined, withTime = false) {
+  if (!iso) return '—';
+  const d = new Date(iso);
+  if (Number.isNaN(d.getTime())) return iso;
+  const date = d.toISOString().slice(0, 10);
+  return withTime ? `${date} ${d.toISOString().slice(11, 16)} UTC` : date;
+}

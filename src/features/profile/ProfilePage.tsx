@@ -1,0 +1,84 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useForm } from 'react-hook-form';
+import { createTokenSchema, ROLE_LABELS } from '@schemas/auth';
+import { DataTable } from '@/components/DataTable';
+import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
+import { api } from '@/lib/api';
+import { useMe } from '@/features/auth/api';
+
+interface TokenRow {
+  id: number;
+  name: string;
+  prefix: string;
+  createdAt: string;
+  lastUsedAt: string | null;
+  revokedAt: string | null;
+}
+
+export function ProfilePage() {
+  const me = useMe();
+  const qc = useQueryClient();
+  const tokens = useQuery({ queryKey: ['tokens'], queryFn: () => api<{ items: TokenRow[] }>('/tokens').then((r) => r.items) });
+  const create = useMutation({
+    mutationFn: (body: { name: string }) => api<{ id: number; token: string; name: string }>('/tokens', { method: 'POST', json: body }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: ['tokens'] }),
+  });
+  const revoke = useMutation({ mutationFn: (id: number) => api(`/tokens/${id}`, { method: 'DELETE' }), onSuccess: () => qc.invalidateQueries({ queryKey: ['tokens'] }) });
+  const form = useForm<{ name: string }>({ resolver: zodResolver(createTokenSchema), defaultValues: { name: '' } });
+  if (!me.data) return <Spinner />;
+  return (
+    <>
+      <PageHeader title={me.data.name} kicker="Your profile">
+        {me.data.email} · {me.data.roles.map((r) => ROLE_LABELS[r]).join(', ')}
+      </PageHeader>
+      <section className="space-y-4">
+        <h2 className="font-heading text-lg font-bold">API tokens</h2>
+        <p className="max-w-2xl text-sm text-ink-soft">
+          Scripts use a token with <code>Authorization: Bearer …</code>. A token acts with your roles. It is shown once, when you create it; Tidegauge keeps only a hash.
+        </p>
+        <form noValidate className="flex items-end gap-2" onSubmit={form.handleSubmit((v) => create.mutate(v, { onSuccess: () => form.reset() }))}>
+          <div className="w-72">
+            <Field label="Token name" htmlFor="token-name" error={form.formState.errors.name?.message}>
+              <input id="token-name" className="field" placeholder="for example: nightly load script" {...form.register('name')} />
+            </Field>
+          </div>
+          <button className="btn" disabled={create.isPending}>
+            Create a token
+          </button>
+        </form>
+        <ErrorNote error={create.error ?? revoke.error} />
+        {create.data && (
+          <div className="card border-trend p-4" data-testid="new-token">
+            <p className="text-sm font-semibold">Copy this token now: it will not be shown again.</p>
+            <code className="mt-2 block break-all rounded bg-paper-deep p-2 text-sm">{create.data.token}</code>
+          </div>
+        )}
+        {tokens.data && (
+          <DataTable
+            data={tokens.data}
+            empty="No tokens yet."
+            columns={[
+              { accessorKey: 'name', header: 'Name' },
+              { accessorKey: 'prefix', header: 'Begins with', cell: (c) => <code>{c.getValue()}…</code> },
+              { accessorKey: 'createdAt', header: 'Created', cell: (c) => formatDate(c.getValue(), true) },
+              { accessorKey: 'lastUsedAt', header: 'Last used', cell: (c) => formatDate(c.getValue(), true) },
+              {
+                id: 'state',
+                header: '',
+                cell: (c) =>
+                  c.row.original.revokedAt ? (
+                    <span className="text-xs text-ink-faint">revoked {formatDate(c.row.original.revokedAt)}</span>
+                  ) : (
+                    <button className="btn-danger" onClick={() => revoke.mutate(c.row.original.id)}>
+                      Revoke
+                    </button>
+                  ),
+              },
+            ]}
+          />
+        )}
+      </section>
+    </>
+  );
+}

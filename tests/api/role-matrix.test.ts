@@ -1,0 +1,104 @@
+/**
+ * The role matrix: for every route the app has, each role (by API token), no credentials at all,
+ * and a revoked token get the answer the rules give. The matrix is data: a new route fails the
+ * "every route is in the matrix" check until it is added here.
+ */
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { makeTestApp, type TestApp } from '../helpers/app.js';
+import { signedIn } from '../helpers/session.js';
+import { ROLES, type Role } from '../../server/schemas/auth.js';
+
+type Who = Role | 'anon' | 'revoked';
+const ALL: Role[] = [...ROLES];
+const SIGNED_IN = ALL;
+const PUBLIC = 'public' as const;
+
+interface Row {
+  route: string; // "METHOD /api/v1/path" exactly as registered
+  path?: string; // a concrete path when the route has parameters
+  body?: unknown;
+  allow: readonly Role[] | typeof PUBLIC;
+}
+
+// Concrete ids that do not exist: an allowed caller gets 404 (or 400), never 401/403.
+export const MATRIX: Row[] = [
+  { route: 'GET /api/v1/health', allow: PUBLIC },
+  { route: 'GET /api/v1/openapi.json', allow: PUBLIC },
+  { route: 'POST /api/v1/auth/sign-in', body: {}, allow: PUBLIC },
+  { route: 'POST /api/v1/auth/sign-out', allow: SIGNED_IN },
+  { route: 'GET /api/v1/auth/me', allow: SIGNED_IN },
+  { route: 'POST /api/v1/auth/password-reset', body: {}, allow: PUBLIC },
+  { route: 'POST /api/v1/auth/password-reset/complete', body: {}, allow: PUBLIC },
+  { route: 'GET /api/v1/invitations/lookup/:token', path: '/api/v1/invitations/lookup/nothing-here', allow: PUBLIC },
+  { route: 'POST /api/v1/invitations/accept', body: {}, allow: PUBLIC },
+  { route: 'GET /api/v1/users', allow: ['admin'] },
+  { route: 'PATCH /api/v1/users/:id', path: '/api/v1/users/999999', body: { roles: ['viewer'] }, allow: ['admin'] },
+  { route: 'GET /api/v1/invitations', allow: ['admin'] },
+  { route: 'POST /api/v1/invitations', body: {}, allow: ['admin'] },
+  { route: 'POST /api/v1/invitations/:id/resend', path: '/api/v1/invitations/999999/resend', allow: ['admin'] },
+  { route: 'DELETE /api/v1/invitations/:id', path: '/api/v1/invitations/999999', allow: ['admin'] },
+  { route: 'GET /api/v1/users/:id/tokens', path: '/api/v1/users/999999/tokens', allow: ['admin'] },
+  { route: 'GET /api/v1/audit', allow: ['admin'] },
+  { route: 'GET /api/v1/settings', allow: SIGNED_IN },
+  { route: 'PUT /api/v1/settings', body: {}, allow: ['admin'] },
+  { route: 'POST /api/v1/tokens', body: {}, allow: SIGNED_IN },
+  { route: 'GET /api/v1/tokens', allow: SIGNED_IN },
+  { route: 'DELETE /api/v1/tokens/:id', path: '/api/v1/tokens/999999', allow: SIGNED_IN },
+  { route: 'GET /api/v1/dev/mailbox', allow: ['admin'] },
+];
+
+let t: TestApp;
+const tokens = {} as Record<Who, string | undefined>;
+
+beforeAll(async () => {
+  t = await makeTestApp({}, { seedDemo: true });
+  for (const role of ALL) {
+    const agent = await signedIn(t, `${role}@demo.test`);
+    tokens[role] = (await agent.post('/api/v1/tokens').send({ name: 'matrix' })).body.token;
+  }
+  const agent = await signedIn(t, 'viewer@demo.test');
+  const revoked = (await agent.post('/api/v1/tokens').send({ name: 'revoked' })).body;
+  await agent.delete(`/api/v1/tokens/${revoked.id}`).expect(204);
+  tokens.revoked = revoked.token;
+}, 120_000);
+afterAll(async () => {
+  await t.close();
+});
+
+describe('role matrix', () => {
+  it('covers every route the app registers', () => {
+    const registered = t.app.locals.routes.map((r) => `${r.method.toUpperCase()} ${r.fullPath}`).sort();
+    const inMatrix = MATRIX.map((r) => r.route).sort();
+    expect(registered.filter((r) => !inMatrix.includes(r)), 'routes missing from the matrix').toEqual([]);
+    expect(inMatrix.filter((r) => !registered.includes(r)), 'matrix rows for routes that do not exist').toEqual([]);
+  });
+
+  for (const row of MATRIX) {
+    const [method, registeredPath] = row.route.split(' ');
+    const path = row.path ?? registeredPath;
+    const whos: Who[] = ['anon', 'revoked', ...ALL];
+    it(row.route, async () => {
+      for (const who of whos) {
+        let req = request(t.app)[method.toLowerCase() as 'get'](path);
+        if (who !== 'anon') req = req.set('Authorization', `Bearer ${tokens[who]}`);
+        const res = row.body !== undefined ? await req.send(row.body as object) : await req;
+        const label = `${row.route} as ${who} → ${res.status} ${JSON.stringify(res.body?.error ?? '')}`;
+        expect(res.status, label).toBeLessThan(500);
+        if (res.status >= 400) expect(res.body.error?.code, label).toBeTruthy();
+        if (row.allow === PUBLIC) {
+          // Public routes ignore credentials, except that a revoked token is refused outright.
+          if (who === 'revoked') expect(res.status, label).toBe(401);
+          else expect([401, 403], label).not.toContain(res.status);
+        } else if (who === 'anon' || who === 'revoked') {
+          expect(res.status, label).toBe(401);
+        } else if (row.allow.includes(who)) {
+          expect([401, 403], label).not.toContain(res.status);
+        } else {
+          expect(res.status, label).toBe(403);
+          expect(res.body.error.code, label).toBe('role_required');
+        }
+      }
+    });
+  }
+});
