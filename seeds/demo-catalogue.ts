@@ -1,4 +1,42 @@
+/** Series and vintages of the demo workspace, loaded from datasets/demo/ the way a steward would. */
+import fs from 'node:fs';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
 import type { Db } from '../server/db.js';
+import { createSeries, previewLoad, storeLoad } from '../server/services/catalogue.js';
 
-/** Series and vintages of the demo workspace (filled in with the Catalogue). */
-export async function seedDemoCatalogue(_db: Db, _people: Record<string, number>) {}
+const dir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'datasets', 'demo');
+
+interface Manifest {
+  series: {
+    code: string;
+    title: string;
+    frequency: 'A' | 'Q' | 'M';
+    unit: string;
+    seasonalAdjustment: 'sa' | 'nsa' | 'sca';
+    source: string;
+    notes: string;
+    vintages: { number: number; asOf: string; note: string; file: string }[];
+  }[];
+}
+
+export async function seedDemoCatalogue(db: Db, people: Record<string, number>) {
+  const manifest = JSON.parse(fs.readFileSync(path.join(dir, 'manifest.json'), 'utf8')) as Manifest;
+  const steward = people['steward@demo.test'];
+  for (const s of manifest.series) {
+    const series = await createSeries(db, steward, {
+      code: s.code,
+      title: s.title,
+      frequency: s.frequency,
+      unit: s.unit,
+      seasonalAdjustment: s.seasonalAdjustment,
+      source: s.source,
+      notes: s.notes,
+    });
+    for (const v of s.vintages) {
+      const buffer = fs.readFileSync(path.join(dir, v.file));
+      const preview = await previewLoad(db, { buffer, filename: v.file }, series.id);
+      await storeLoad(db, steward, preview, { note: v.note, asOf: v.asOf });
+    }
+  }
+}

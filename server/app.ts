@@ -22,6 +22,9 @@ import { authRoutes } from './routes/auth.js';
 import { healthRoutes } from './routes/health.js';
 import { openapiRoutes } from './routes/openapi.js';
 import { peopleRoutes } from './routes/people.js';
+import { catalogueRoutes } from './routes/catalogue.js';
+import { decomposeRoutes } from './routes/decompose.js';
+import { createAnalysisPool, type AnalysisPool } from './workers/pool.js';
 
 export interface AppOptions {
   config: Config;
@@ -31,22 +34,26 @@ export interface AppOptions {
   mailer?: Mailer;
   /** The local fake mail server, when one runs (development and tests): feeds the Mailbox page. */
   mailbox?: FakeMailServer;
+  /** Worker threads for large batches; made from the configuration when not given. */
+  pool?: AnalysisPool;
 }
 
 export interface AppDeps extends AppOptions {
   mailer: Mailer;
   lucia: AppLucia;
+  pool: AnalysisPool;
 }
 
 export const API_PREFIX = '/api/v1';
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
-export function createApp(options: AppOptions): Express & { locals: { routes: RegisteredRoute[] } } {
+export function createApp(options: AppOptions): Express & { locals: { routes: RegisteredRoute[]; shutdown: () => Promise<void> } } {
   const { config, logger, db } = options;
   const deps: AppDeps = {
     ...options,
     mailer: options.mailer ?? createMailer(config, logger, options.mailbox?.port),
     lucia: createLucia(db, config.sessionIdleHours, config.publicOrigin.startsWith('https://')),
+    pool: options.pool ?? createAnalysisPool(config.workerThreads),
   };
   const app = express();
   app.disable('x-powered-by');
@@ -94,7 +101,7 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
   api.use(authenticate(db, deps.lucia));
   api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));
@@ -115,7 +122,8 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
 
   app.use(errorHandler(logger, config));
   app.locals.routes = routes;
-  return app as Express & { locals: { routes: RegisteredRoute[] } };
+  app.locals.shutdown = () => deps.pool.close();
+  return app as Express & { locals: { routes: RegisteredRoute[]; shutdown: () => Promise<void> } };
 }
 
 function errorHandler(logger: Logger, config: Config): ErrorRequestHandler {

@@ -44,7 +44,7 @@ async function close(signal: string) {
   server.close();
   server.closeIdleConnections?.();
   setTimeout(() => process.exit(0), 5000).unref();
-  await Promise.allSettled([db.destroy(), mailbox?.close()]);
+  await Promise.allSettled([app.locals.shutdown(), db.destroy(), mailbox?.close()]);
   process.exit(0);
 }
 process.on('SIGINT', () => void close('SIGINT'));

@@ -13,6 +13,7 @@ type Who = Role | 'anon' | 'revoked';
 const ALL: Role[] = [...ROLES];
 const SIGNED_IN = ALL;
 const PUBLIC = 'public' as const;
+const STEWARDS: Role[] = ['steward', 'admin'];
 
 interface Row {
   route: string; // "METHOD /api/v1/path" exactly as registered
@@ -46,6 +47,30 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/tokens', allow: SIGNED_IN },
   { route: 'DELETE /api/v1/tokens/:id', path: '/api/v1/tokens/999999', allow: SIGNED_IN },
   { route: 'GET /api/v1/dev/mailbox', allow: ['admin'] },
+  // Catalogue: everyone signed in reads; stewards and admins write. Vintages never change (409).
+  { route: 'GET /api/v1/series', allow: SIGNED_IN },
+  { route: 'POST /api/v1/series', body: {}, allow: STEWARDS },
+  { route: 'GET /api/v1/series/:id', path: '/api/v1/series/999999', allow: SIGNED_IN },
+  { route: 'PATCH /api/v1/series/:id', path: '/api/v1/series/999999', body: { title: 'x' }, allow: STEWARDS },
+  { route: 'DELETE /api/v1/series/:id', path: '/api/v1/series/999999', allow: STEWARDS },
+  { route: 'POST /api/v1/series/:id/vintages', path: '/api/v1/series/999999/vintages', allow: STEWARDS },
+  { route: 'GET /api/v1/series/:id/vintages', path: '/api/v1/series/999999/vintages', allow: SIGNED_IN },
+  { route: 'GET /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', allow: SIGNED_IN },
+  { route: 'PUT /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', body: {}, allow: SIGNED_IN },
+  { route: 'PATCH /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', body: {}, allow: SIGNED_IN },
+  { route: 'DELETE /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', allow: SIGNED_IN },
+  { route: 'GET /api/v1/series/:id/vintages/:number/observations', path: '/api/v1/series/999999/vintages/latest/observations', allow: SIGNED_IN },
+  { route: 'GET /api/v1/series/:id/vintages/:number/export', path: '/api/v1/series/999999/vintages/1/export', allow: SIGNED_IN },
+  { route: 'GET /api/v1/series/:id/revisions', path: '/api/v1/series/999999/revisions', allow: SIGNED_IN },
+  { route: 'GET /api/v1/series/:id/revisions/triangle', path: '/api/v1/series/999999/revisions/triangle', allow: SIGNED_IN },
+  { route: 'POST /api/v1/loads', allow: STEWARDS },
+  { route: 'GET /api/v1/loads', allow: SIGNED_IN },
+  // Analysis: anyone signed in may compute.
+  { route: 'POST /api/v1/decompose', body: {}, allow: SIGNED_IN },
+  { route: 'POST /api/v1/decompose/batch', body: {}, allow: SIGNED_IN },
+  { route: 'GET /api/v1/methods', allow: SIGNED_IN },
+  { route: 'GET /api/v1/gain', path: '/api/v1/gain?method=hp', allow: SIGNED_IN },
+  { route: 'GET /api/v1/lambda', path: '/api/v1/lambda?lambda=1600', allow: SIGNED_IN },
 ];
 
 let t: TestApp;

@@ -37,6 +37,7 @@ export async function makeTestApp(overrides: Record<string, string> = {}, option
     config,
     mail,
     async close() {
+      await app.locals.shutdown();
       await mail.close();
       await testDb.drop();
     },

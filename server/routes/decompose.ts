@@ -1,0 +1,102 @@
+import type { AppDeps } from '../app.js';
+import { lambdaPresets, cutoffPeriod, defaultParams, gainCurve, lambdaForCutoff, METHOD_NAMES, METHODS, TWO_SIDED, type Frequency, type Method } from '../analysis/index.js';
+import type { RouteSpec } from '../lib/http.js';
+import { batchRequestSchema, decomposeRequestSchema, frequencySchema, methodSchema } from '../schemas/decompose.js';
+import { decomposeOne, resolveItems, runBatch, validateBatchSize } from '../services/decompose.js';
+import { paramSchemas } from '../schemas/decompose.js';
+import { z } from 'zod';
+import { badRequest } from '../lib/errors.js';
+import { streamNdjson, wantsStream } from '../lib/stream.js';
+
+export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
+  return [
+    {
+      method: 'post',
+      path: '/decompose',
+      access: 'signedIn',
+      summary: 'Decompose one series into trend and cycle (stateless)',
+      tags: ['analysis'],
+      body: decomposeRequestSchema,
+      handler: ({ body }) => decomposeOne(body as never),
+    },
+    {
+      method: 'post',
+      path: '/decompose/batch',
+      access: 'signedIn',
+      summary: 'Decompose many series (values, or stored series by id and vintage); large batches run on worker threads',
+      tags: ['analysis'],
+      body: batchRequestSchema,
+      raw: true,
+      handler: async ({ body, req, res }) => {
+        validateBatchSize(body.items as never);
+        const run = async (progress?: (done: number, total: number) => void) => {
+          const items = await resolveItems(deps.db, body.items as never);
+          return runBatch(items, body.output, deps.pool, progress);
+        };
+        if (wantsStream(req)) {
+          await streamNdjson(res, async (send) => {
+            const strings = await run((done, total) => send({ type: 'progress', phase: 'decomposing', done, total }));
+            send({ type: 'result', result: { items: '__ITEMS__' } }, strings);
+          });
+          return;
+        }
+        const strings = await run();
+        res.status(200).type('application/json').send(`{"items":[${strings.join(',')}]}`);
+      },
+    },
+    {
+      method: 'get',
+      path: '/methods',
+      access: 'signedIn',
+      summary: 'The methods, their conventional parameters by frequency and the λ presets',
+      tags: ['analysis'],
+      handler: () => ({
+        methods: METHODS.map((m) => ({
+          id: m,
+          name: METHOD_NAMES[m],
+          twoSided: TWO_SIDED[m],
+          parameters: Object.keys(paramSchemas[m].shape),
+          defaults: Object.fromEntries((['A', 'Q', 'M'] as Frequency[]).map((f) => [f, defaultParams(m, f)])),
+        })),
+        presets: Object.fromEntries((['A', 'Q', 'M'] as Frequency[]).map((f) => [f, lambdaPresets(f).map((p) => ({ ...p, cutoffPeriod: cutoffPeriod(p.lambda) }))])),
+      }),
+    },
+    {
+      method: 'get',
+      path: '/gain',
+      access: 'signedIn',
+      summary: 'Gain of a method’s cycle filter over a grid of periods, with its cut-off',
+      tags: ['analysis'],
+      query: z.object({
+        method: methodSchema,
+        frequency: frequencySchema.default('Q'),
+        params: z.string().max(2000).optional(),
+        n: z.coerce.number().int().min(3).max(100000).optional(),
+      }),
+      handler: ({ query }) => {
+        let params: Record<string, unknown> = {};
+        try {
+          params = query.params ? JSON.parse(query.params) : {};
+        } catch {
+          throw badRequest('invalid_params', 'params must be a JSON object, for example {"lambda":1600}.');
+        }
+        const method = query.method as Method;
+        const filled = { ...defaultParams(method, query.frequency as Frequency), ...params };
+        return gainCurve({ method, params: filled, n: query.n });
+      },
+    },
+    {
+      method: 'get',
+      path: '/lambda',
+      access: 'signedIn',
+      summary: 'Convert between λ and the cut-off period (where the trend gain is one half)',
+      tags: ['analysis'],
+      query: z.object({ lambda: z.coerce.number().positive().optional(), cutoff: z.coerce.number().gt(2).optional(), order: z.coerce.number().int().min(1).max(3).default(2) }),
+      handler: ({ query }) => {
+        if (query.lambda !== undefined) return { lambda: query.lambda, cutoffPeriod: cutoffPeriod(query.lambda, query.order), order: query.order };
+        if (query.cutoff !== undefined) return { lambda: lambdaForCutoff(query.cutoff, query.order), cutoffPeriod: query.cutoff, order: query.order };
+        throw badRequest('missing_parameter', 'Give lambda or cutoff (in periods).');
+      },
+    },
+  ];
+}

@@ -1,0 +1,44 @@
+/** Bodies of the Catalogue routes (series metadata and loads), shared with the client forms. */
+import { z } from 'zod';
+
+export const SA_VALUES = ['sa', 'nsa', 'sca'] as const;
+export const SA_LABELS: Record<(typeof SA_VALUES)[number], string> = {
+  sa: 'seasonally adjusted',
+  nsa: 'not seasonally adjusted',
+  sca: 'seasonally and calendar adjusted',
+};
+
+const text = (what: string, max: number) => z.string({ error: `Enter the ${what}.` }).trim().min(1, `Enter the ${what}.`).max(max, `The ${what} has at most ${max} characters.`);
+
+export const seriesCodeSchema = z
+  .string({ error: 'Enter a code.' })
+  .trim()
+  .min(2, 'A code has at least 2 characters.')
+  .max(64, 'A code has at most 64 characters.')
+  .regex(/^[A-Z][A-Z0-9_.]*$/, 'Use capital letters, digits, "_" and "." only, starting with a letter (for example NL_GDP_REAL).');
+
+export const createSeriesSchema = z.object({
+  code: seriesCodeSchema,
+  title: text('title', 300),
+  frequency: z.enum(['A', 'Q', 'M'], { error: 'Choose the frequency: A, Q or M.' }),
+  unit: text('unit', 120),
+  seasonalAdjustment: z.enum(SA_VALUES, { error: 'Choose sa, nsa or sca.' }),
+  source: z.string().trim().max(300, 'The source has at most 300 characters.').default(''),
+  notes: z.string().max(5000, 'Notes have at most 5000 characters.').optional(),
+  sdmxKey: z.string().trim().max(200).regex(/^[A-Za-z0-9_.@-]*$/, 'An SDMX key has letters, digits and . _ @ - only.').optional(),
+});
+export type CreateSeriesBody = z.infer<typeof createSeriesSchema>;
+
+/** Metadata can be corrected, except the frequency once a vintage exists (the checks depend on it). */
+export const updateSeriesSchema = createSeriesSchema.partial().refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
+
+export const loadFieldsSchema = z.object({
+  note: z.string().max(2000, 'The note has at most 2000 characters.').optional(),
+  asOf: z
+    .string()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, 'Write the as-of date as YYYY-MM-DD.')
+    .refine((d) => !Number.isNaN(Date.parse(d + 'T00:00:00Z')) && new Date(d + 'T00:00:00Z').toISOString().slice(0, 10) === d, 'The as-of date is not a real date.')
+    .optional(),
+  format: z.enum(['csv', 'sdmx-csv', 'xlsx']).optional(),
+  expectChecksum: z.string().regex(/^[0-9a-f]{64}$/).optional(),
+});

@@ -1,0 +1,50 @@
+/**
+ * The work done on a worker thread for batch decompositions: decompose a chunk of requests and
+ * answer each as a ready JSON string, so the main thread only concatenates text.
+ */
+import { AnalysisError, cycleStatistics, decompose, toJsonResponse, type DecomposeRequest } from '../analysis/index.js';
+
+export interface BatchItem extends DecomposeRequest {
+  id?: string;
+  /** Extra fields echoed into the answer (stored series: seriesId, vintage). */
+  echo?: Record<string, unknown>;
+}
+
+export interface BatchTask {
+  items: BatchItem[];
+  output: 'full' | 'summary';
+}
+
+export function runBatchChunk(task: BatchTask): string[] {
+  return task.items.map((item) => {
+    const head = { ...(item.id !== undefined ? { id: item.id } : {}), ...(item.echo ?? {}) };
+    try {
+      const r = decompose(item);
+      if (task.output === 'summary') {
+        let last = r.cycle.length - 1;
+        while (last >= 0 && Number.isNaN(r.cycle[last])) last--;
+        const stats = cycleStatistics(r.cycle, r.frequency);
+        return JSON.stringify({
+          ...head,
+          method: r.method,
+          params: r.params,
+          transform: r.transform,
+          last: last >= 0 ? { period: r.periods?.[last] ?? null, index: last, trend: r.trend[last], cycle: r.cycle[last] } : null,
+          statistics: jsonSafe(stats),
+          warnings: r.warnings,
+        });
+      }
+      return JSON.stringify({ ...head, ...toJsonResponse(r) });
+    } catch (error) {
+      const e = error instanceof AnalysisError ? { code: error.code, message: error.message } : { code: 'computation_failed', message: `The computation failed: ${(error as Error).message}.` };
+      return JSON.stringify({ ...head, error: e });
+    }
+  });
+}
+
+/** NaN and infinities become null, as everywhere in the API. */
+export function jsonSafe<T>(value: T): T {
+  return JSON.parse(JSON.stringify(value, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)));
+}
+
+export default runBatchChunk;

@@ -1,0 +1,36 @@
+/**
+ * Worker threads for heavy decompositions (piscina), so that large batches do not hold up the
+ * event loop: health checks and other requests keep being answered while a batch runs.
+ */
+import os from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { Piscina } from 'piscina';
+import type { BatchTask } from './decompose-task.js';
+
+export interface AnalysisPool {
+  run(task: BatchTask): Promise<string[]>;
+  close(): Promise<void>;
+  threads: number;
+}
+
+export function createAnalysisPool(threads: number): AnalysisPool {
+  const n = Math.max(1, threads || Math.max(1, os.availableParallelism() - 1));
+  let pool: Piscina | null = null;
+  const get = () =>
+    (pool ??= new Piscina({
+      filename: fileURLToPath(new URL('./decompose.worker.mjs', import.meta.url)),
+      minThreads: 0,
+      maxThreads: n,
+      idleTimeout: 30_000,
+      // The workers' own memory limit: a runaway request ends its worker, not the server.
+      resourceLimits: { maxOldGenerationSizeMb: 1024 },
+    }));
+  return {
+    threads: n,
+    run: (task) => get().run(task) as Promise<string[]>,
+    close: async () => {
+      if (pool) await pool.destroy();
+      pool = null;
+    },
+  };
+}
