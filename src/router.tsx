@@ -10,6 +10,10 @@ import { ProfilePage } from '@/features/profile/ProfilePage';
 import { HomePage } from '@/routes/HomePage';
 import { NotFoundPage } from '@/routes/NotFoundPage';
 import { PlaceholderPage } from '@/routes/PlaceholderPage';
+import { CataloguePage } from '@/features/catalogue/CataloguePage';
+import { EditSeriesPage, NewSeriesPage } from '@/features/catalogue/SeriesForm';
+import { LoadsPage } from '@/features/catalogue/LoadsPage';
+import { SeriesPage } from '@/features/catalogue/SeriesPage';
 
 export const router = createBrowserRouter([
   { path: '/sign-in', element: <SignInPage /> },
@@ -20,7 +24,11 @@ export const router = createBrowserRouter([
     element: <Layout />,
     children: [
       { index: true, element: <HomePage /> },
-      { path: 'catalogue/*', element: <PlaceholderPage title="Catalogue" /> },
+      { path: 'catalogue', element: <CataloguePage /> },
+      { path: 'catalogue/new', element: <RequireRole roles={['steward', 'admin']}><NewSeriesPage /></RequireRole> },
+      { path: 'catalogue/loads', element: <RequireRole roles={['steward', 'admin']}><LoadsPage /></RequireRole> },
+      { path: 'catalogue/:id', element: <SeriesPage /> },
+      { path: 'catalogue/:id/edit', element: <RequireRole roles={['steward', 'admin']}><EditSeriesPage /></RequireRole> },
       { path: 'studies/*', element: <RequireRole roles={['economist', 'editor', 'admin']}><PlaceholderPage title="Studies" /></RequireRole> },
       { path: 'boards/*', element: <PlaceholderPage title="Boards" /> },
       { path: 'exhibits/*', element: <PlaceholderPage title="Exhibits" /> },

@@ -12,7 +12,13 @@ export interface SeriesRows {
   key: string | null;
   /** A code named in the file (a SERIES_CODE column), used before the key to match the Catalogue. */
   code: string | null;
-  rows: { row: number; period: string; value: string; freq?: string; unit?: string }[];
+  /** Parallel arrays, one entry per data row (compact: large loads hold a million of them). */
+  rowNumbers: number[];
+  periods: string[];
+  values: string[];
+  /** Distinct FREQ and unit cells, with the first row that has each and how many rows do. */
+  freqs: Map<string, { first: number; count: number }>;
+  units: Map<string, { first: number; count: number }>;
   periodColumn: string;
   valueColumn: string;
 }
@@ -22,6 +28,24 @@ export const MAX_KEY_DIMENSIONS = 20;
 export const MAX_KEY_LENGTH = 200;
 
 const find = (header: string[], names: string[]) => header.findIndex((h) => names.includes(h.trim().toLowerCase()));
+
+function newGroup(key: string | null, code: string | null, periodColumn: string, valueColumn: string): SeriesRows {
+  return { key, code, rowNumbers: [], periods: [], values: [], freqs: new Map(), units: new Map(), periodColumn, valueColumn };
+}
+
+function tally(map: Map<string, { first: number; count: number }>, raw: string | undefined, row: number) {
+  const v = (raw ?? '').trim();
+  if (!v) return;
+  const hit = map.get(v);
+  if (hit) hit.count++;
+  else if (map.size < 50) map.set(v, { first: row, count: 1 });
+}
+
+function push(g: SeriesRows, row: number, period: string | undefined, value: string | undefined) {
+  g.rowNumbers.push(row);
+  g.periods.push(period ?? '');
+  g.values.push(value ?? '');
+}
 
 /** Splits a table into the rows of each series it carries. */
 export function splitSeries(table: Table): SeriesRows[] {
@@ -39,14 +63,17 @@ export function splitSeries(table: Table): SeriesRows[] {
   const f = find(header, ['frequency', 'freq']);
   const u = find(header, ['unit', 'unit_measure']);
   const c = find(header, ['series_code', 'code', 'series']);
-  const rows: SeriesRows['rows'] = [];
+  const g = newGroup(null, null, header[p], header[v]);
   const codes = new Set<string>();
-  table.rows.forEach((cells, i) => {
+  table.eachRow((cells, row) => {
     if (cells.every((x) => !String(x ?? '').trim())) return;
-    rows.push({ row: i + 2, period: cells[p] ?? '', value: cells[v] ?? '', freq: f >= 0 ? cells[f] : undefined, unit: u >= 0 ? cells[u] : undefined });
-    if (c >= 0 && cells[c]) codes.add(String(cells[c]).trim());
+    push(g, row, cells[p], cells[v]);
+    if (f >= 0) tally(g.freqs, cells[f], row);
+    if (u >= 0) tally(g.units, cells[u], row);
+    if (c >= 0 && cells[c] && codes.size < 2) codes.add(String(cells[c]).trim());
   });
-  return [{ key: null, code: codes.size === 1 ? [...codes][0] : null, rows, periodColumn: header[p], valueColumn: header[v] }];
+  g.code = codes.size === 1 ? [...codes][0] : null;
+  return [g];
 }
 
 function splitSdmx(table: Table): SeriesRows[] {
@@ -66,24 +93,29 @@ function splitSdmx(table: Table): SeriesRows[] {
   const u = H.indexOf('UNIT_MEASURE') >= 0 ? H.indexOf('UNIT_MEASURE') : H.indexOf('UNIT');
   const c = H.indexOf('SERIES_CODE');
   const groups = new Map<string, SeriesRows>();
-  const rows = table.rows;
-  for (let i = 0; i < rows.length; i++) {
-    const cells = rows[i];
-    if (cells.length === 1 && !cells[0]) continue;
+  let last: SeriesRows | undefined;
+  let lastKey = '';
+  table.eachRow((cells, row) => {
+    if (cells.length === 1 && !cells[0]) return;
     let key = '';
     for (let d = 0; d < dims.length; d++) key += (d ? '.' : '') + (cells[dims[d]] ?? '').trim();
     if (key.length > MAX_KEY_LENGTH) {
-      throw unprocessable('key_too_long', `Row ${i + 2}: the series key is ${key.length} characters long; at most ${MAX_KEY_LENGTH} are accepted.`, [{ row: i + 2, column: null, message: 'series key too long' }]);
+      throw unprocessable('key_too_long', `Row ${row}: the series key is ${key.length} characters long; at most ${MAX_KEY_LENGTH} are accepted.`, [{ row, column: null, message: 'series key too long' }]);
     }
     const code = c >= 0 ? (cells[c] ?? '').trim() : '';
     const gk = code || key;
-    let g = groups.get(gk);
+    let g = gk === lastKey ? last : groups.get(gk);
     if (!g) {
-      g = { key, code: code || null, rows: [], periodColumn: 'TIME_PERIOD', valueColumn: 'OBS_VALUE' };
+      if (groups.size >= 100_000) throw unprocessable('too_many_series', 'The file carries more than 100 000 series; split it.');
+      g = newGroup(key, code || null, 'TIME_PERIOD', 'OBS_VALUE');
       groups.set(gk, g);
     }
-    g.rows.push({ row: i + 2, period: cells[t] ?? '', value: cells[v] ?? '', freq: f >= 0 ? cells[f] : undefined, unit: u >= 0 ? cells[u] : undefined });
-  }
+    last = g;
+    lastKey = gk;
+    push(g, row, cells[t], cells[v]);
+    if (f >= 0) tally(g.freqs, cells[f], row);
+    if (u >= 0) tally(g.units, cells[u], row);
+  });
   return [...groups.values()];
 }
 
@@ -118,50 +150,58 @@ export function checkObservations(series: SeriesRows, expect: { frequency: Frequ
   const seen = new Map<number, number>();
   const obs: { index: number; value: number | null }[] = [];
   let rewritten = 0;
-  let freqMismatch = 0;
-  let unitMismatch = 0;
-  const push = (p: FileProblem) => {
+  let errors = 0;
+  const add = (p: FileProblem) => {
     if (problems.length < 1000) problems.push(p);
   };
-  let errors = 0;
-  for (const r of series.rows) {
-    if (r.period.length > MAX_CELL || r.value.length > MAX_CELL) {
-      push({ row: r.row, column: null, message: 'A cell is far too long to be a period or a value.', severity: 'error' });
+  for (const [freq, { first, count }] of series.freqs) {
+    if (freq.toUpperCase() !== expect.frequency) {
+      add({ row: first, column: 'FREQ', message: `The frequency is ${freq.slice(0, 5)}, but the series is ${expect.frequency}${count > 1 ? ` (on ${count} rows)` : ''}.`, severity: 'error' });
+      errors += count;
+    }
+  }
+  if (expect.unit) {
+    for (const [unit, { first, count }] of series.units) {
+      if (unit.toLowerCase() !== expect.unit.trim().toLowerCase()) {
+        add({ row: first, column: 'unit', message: `The unit is "${unit.slice(0, 40)}", but the series is in "${expect.unit}"${count > 1 ? ` (on ${count} rows)` : ''}.`, severity: 'warning' });
+      }
+    }
+  }
+  const n = series.rowNumbers.length;
+  for (let k = 0; k < n; k++) {
+    const row = series.rowNumbers[k];
+    const rawPeriod = series.periods[k];
+    const rawValue = series.values[k];
+    if (rawPeriod.length > MAX_CELL || rawValue.length > MAX_CELL) {
+      add({ row, column: null, message: 'A cell is far too long to be a period or a value.', severity: 'error' });
       errors++;
       continue;
     }
-    if (r.freq !== undefined && r.freq.trim() && r.freq.trim().toUpperCase() !== expect.frequency) {
-      if (freqMismatch++ < 20) push({ row: r.row, column: 'FREQ', message: `The frequency is ${r.freq.trim().slice(0, 5)}, but the series is ${expect.frequency}.`, severity: 'error' });
-      errors++;
-    }
-    if (expect.unit && r.unit !== undefined && r.unit.trim() && r.unit.trim().toLowerCase() !== expect.unit.trim().toLowerCase()) {
-      if (unitMismatch++ < 5) push({ row: r.row, column: 'unit', message: `The unit is "${r.unit.trim().slice(0, 40)}", but the series is in "${expect.unit}".`, severity: 'warning' });
-    }
-    const p = readPeriod(r.period, expect.frequency);
+    const p = readPeriod(rawPeriod, expect.frequency);
     if ('error' in p) {
-      push({ row: r.row, column: series.periodColumn, message: p.error, severity: 'error' });
+      add({ row, column: series.periodColumn, message: p.error, severity: 'error' });
       errors++;
       continue;
     }
     if (p.rewritten) rewritten++;
     const index = periodIndex(p.period, expect.frequency)!;
-    const v = readValue(r.value);
+    const v = readValue(rawValue);
     if ('error' in v) {
-      push({ row: r.row, column: series.valueColumn, message: v.error, severity: 'error' });
+      add({ row, column: series.valueColumn, message: v.error, severity: 'error' });
       errors++;
       continue;
     }
     const first = seen.get(index);
     if (first !== undefined) {
-      push({ row: r.row, column: series.periodColumn, message: `${p.period} appears again (first on row ${first}).`, severity: 'error' });
+      add({ row, column: series.periodColumn, message: `${p.period} appears again (first on row ${first}).`, severity: 'error' });
       errors++;
       continue;
     }
-    seen.set(index, r.row);
+    seen.set(index, row);
     obs.push({ index, value: v.value });
   }
-  if (series.rows.length === 0) {
-    push({ row: null, column: null, message: 'The file has no observations.', severity: 'error' });
+  if (n === 0) {
+    add({ row: null, column: null, message: 'The file has no observations.', severity: 'error' });
     errors++;
   }
   obs.sort((a, b) => a.index - b.index);
@@ -170,10 +210,9 @@ export function checkObservations(series: SeriesRows, expect: { frequency: Frequ
     if (gap > 1) {
       const from = formatPeriod(obs[i - 1].index + 1, expect.frequency);
       const to = formatPeriod(obs[i].index - 1, expect.frequency);
-      push({ row: seen.get(obs[i].index) ?? null, column: series.periodColumn, message: gap === 2 ? `No row for ${from}: the sequence has a gap.` : `No rows from ${from} to ${to}: the sequence has a gap.`, severity: 'warning' });
+      add({ row: seen.get(obs[i].index) ?? null, column: series.periodColumn, message: gap === 2 ? `No row for ${from}: the sequence has a gap.` : `No rows from ${from} to ${to}: the sequence has a gap.`, severity: 'warning' });
     }
   }
-  if (rewritten) push({ row: null, column: series.periodColumn, message: `${rewritten} period${rewritten === 1 ? ' was' : 's were'} written in another form and read as SDMX periods (for example 2024Q1 as 2024-Q1).`, severity: 'warning' });
-  if (freqMismatch > 20) push({ row: null, column: 'FREQ', message: `…and ${freqMismatch - 20} more rows with another frequency.`, severity: 'error' });
+  if (rewritten) add({ row: null, column: series.periodColumn, message: `${rewritten} period${rewritten === 1 ? ' was' : 's were'} written in another form and read as SDMX periods (for example 2024Q1 as 2024-Q1).`, severity: 'warning' });
   return { periods: obs.map((o) => formatPeriod(o.index, expect.frequency)), values: obs.map((o) => o.value), problems, errorCount: errors };
 }

@@ -13,8 +13,8 @@ export type FileFormat = 'csv' | 'sdmx-csv' | 'xlsx';
 export interface Table {
   format: FileFormat;
   header: string[];
-  /** rows[i] has the cells of spreadsheet row i + 2. */
-  rows: string[][];
+  /** Calls `visit` with the cells of every row after the header and its spreadsheet row number. */
+  eachRow(visit: (cells: string[], row: number) => void): void;
 }
 
 export const MAX_ROWS = 2_500_000;
@@ -55,19 +55,47 @@ export function decodeText(buf: Buffer): string {
 
 export function parseDelimited(buf: Buffer, format: 'csv' | 'sdmx-csv'): Table {
   const text = decodeText(buf);
-  const parsed = Papa.parse<string[]>(text, { skipEmptyLines: 'greedy', delimiter: '', delimitersToGuess: [',', ';', '\t'] });
-  const fatal = parsed.errors.find((e) => e.type === 'Quotes');
-  if (fatal) {
-    throw unprocessable('unreadable_file', `The file could not be read as CSV: ${fatal.message} (row ${(fatal.row ?? 0) + 1}). A quote is probably not closed.`, [
-      { row: (fatal.row ?? 0) + 1, column: null, message: fatal.message },
-    ]);
-  }
-  const data = parsed.data;
-  if (data.length === 0) throw unprocessable('empty_file', 'The file has no rows.');
-  const header = data[0].map((h) => String(h).trim());
+  const headerLine = Papa.parse<string[]>(text.slice(0, Math.min(text.length, 200_000)), { preview: 1, delimiter: '', delimitersToGuess: [',', ';', '\t'] });
+  const delimiter = headerLine.meta.delimiter || ',';
+  const header = (headerLine.data[0] ?? []).map((h) => String(h).trim());
+  if (!header.length || header.every((h) => !h)) throw unprocessable('empty_file', 'The file has no rows.');
   if (header.length > MAX_COLUMNS) throw unprocessable('too_many_columns', `The file has ${header.length} columns; at most ${MAX_COLUMNS} are accepted.`);
-  if (data.length - 1 > MAX_ROWS) throw unprocessable('too_many_rows', `The file has ${data.length - 1} rows; at most ${MAX_ROWS} are accepted in one load.`);
-  return { format, header, rows: data.slice(1) };
+  return {
+    format,
+    header,
+    // Rows are parsed as they are visited (papaparse's step mode): the file is never held as a
+    // table of cells, which keeps large loads well inside their memory budget.
+    eachRow(visit) {
+      let row = 0;
+      let quoteError: Papa.ParseError | undefined;
+      Papa.parse<string[]>(text, {
+        delimiter,
+        skipEmptyLines: 'greedy',
+        step: (result, parser) => {
+          row++;
+          const bad = result.errors.find((e) => e.type === 'Quotes');
+          if (bad) {
+            quoteError = { ...bad, row };
+            parser.abort();
+            return;
+          }
+          if (row === 1) return; // the header
+          if (row - 1 > MAX_ROWS) {
+            parser.abort();
+            quoteError = { type: 'Delimiter', code: 'UndetectableDelimiter', message: 'too many rows', row };
+            return;
+          }
+          visit(result.data, row);
+        },
+      });
+      if (quoteError?.message === 'too many rows') throw unprocessable('too_many_rows', `The file has more than ${MAX_ROWS} rows; split it into several loads.`);
+      if (quoteError) {
+        throw unprocessable('unreadable_file', `The file could not be read as CSV near row ${quoteError.row}: ${quoteError.message}. A quote is probably not closed.`, [
+          { row: quoteError.row ?? null, column: null, message: quoteError.message },
+        ]);
+      }
+    },
+  };
 }
 
 export async function parseXlsx(buf: Buffer): Promise<Table> {
@@ -110,7 +138,7 @@ export async function parseXlsx(buf: Buffer): Promise<Table> {
     );
   }
   if (header.length === 0) throw unprocessable('empty_file', 'The first worksheet is empty.');
-  return { format: 'xlsx', header, rows };
+  return { format: 'xlsx', header, eachRow: (visit) => rows.forEach((cells, i) => visit(cells, i + 2)) };
 }
 
 function cellText(v: ExcelJS.CellValue): string {

@@ -317,7 +317,7 @@ export async function previewLoad(db: Db, file: { buffer: Buffer; filename: stri
       const mine = groups.filter((g) => match(g) === target.id);
       const chosen = mine.length ? mine : groups.length === 1 ? groups : [];
       if (!chosen.length) {
-        throw unprocessable('series_not_in_file', `The file carries ${groups.length} series and none is ${target.code} (matched by SERIES_CODE, the series' SDMX key, or its code).`, groups.slice(0, 20).map((g) => ({ row: g.rows[0]?.row ?? null, column: null, message: `series key ${g.code ?? g.key}` })));
+        throw unprocessable('series_not_in_file', `The file carries ${groups.length} series and none is ${target.code} (matched by SERIES_CODE, the series' SDMX key, or its code).`, groups.slice(0, 20).map((g) => ({ row: g.rowNumbers[0] ?? null, column: null, message: `series key ${g.code ?? g.key}` })));
       }
       const skipped = groups.length - chosen.length;
       if (skipped) problems.push({ row: null, column: null, message: `${skipped} other series in the file ${skipped === 1 ? 'was' : 'were'} skipped; load them from the Loads page.`, severity: 'warning' });
@@ -343,11 +343,11 @@ export async function previewLoad(db: Db, file: { buffer: Buffer; filename: stri
     if (k % 100 === 0) onProgress?.('checking', k, assigned.length);
     const s = seriesId !== undefined ? meta.get(seriesId) : undefined;
     if (!s) {
-      previews.push(emptyPreview(group, [{ row: group.rows[0]?.row ?? null, column: null, message: `No series in the Catalogue has the code or SDMX key ${group.code ?? group.key ?? '(none)'}; create it first.`, severity: 'error' }]));
+      previews.push(emptyPreview(group, [{ row: group.rowNumbers[0] ?? null, column: null, message: `No series in the Catalogue has the code or SDMX key ${group.code ?? group.key ?? '(none)'}; create it first.`, severity: 'error' }]));
       continue;
     }
     if (seen.has(s.id)) {
-      previews.push(emptyPreview(group, [{ row: group.rows[0]?.row ?? null, column: null, message: `A second block of rows for ${s.code}; put all of a series' rows under one key.`, severity: 'error' }]));
+      previews.push(emptyPreview(group, [{ row: group.rowNumbers[0] ?? null, column: null, message: `A second block of rows for ${s.code}; put all of a series' rows under one key.`, severity: 'error' }]));
       continue;
     }
     seen.add(s.id);
@@ -404,7 +404,7 @@ function emptyPreview(group: SeriesRows, problems: FileProblem[]): SeriesPreview
   return {
     series: null,
     key: group.code ?? group.key,
-    rowCount: group.rows.length,
+    rowCount: group.rowNumbers.length,
     firstPeriod: null,
     lastPeriod: null,
     missingValues: 0,

@@ -36,7 +36,7 @@ export function DataTable<T>({ data, columns, globalFilter, initialSorting = [],
                 const dir = h.column.getIsSorted();
                 const numeric = (h.column.columnDef.meta as { numeric?: boolean } | undefined)?.numeric;
                 return (
-                  <th key={h.id} scope="col" className={`${pad} text-xs font-semibold uppercase tracking-wide text-ink-soft ${numeric ? 'text-right' : 'text-left'}`} aria-sort={dir === 'asc' ? 'ascending' : dir === 'desc' ? 'descending' : undefined}>
+                  <th key={h.id} scope="col" className={`${pad} text-xs font-semibold tracking-wide text-ink-soft ${numeric ? 'text-right' : 'text-left'}`} aria-sort={dir === 'asc' ? 'ascending' : dir === 'desc' ? 'descending' : undefined}>
                     {sortable ? (
                       <button type="button" className="inline-flex items-center gap-1 hover:text-ink" onClick={h.column.getToggleSortingHandler()}>
                         {flexRender(h.column.columnDef.header, h.getContext())}

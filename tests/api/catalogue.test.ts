@@ -219,7 +219,7 @@ describe('vintages', () => {
     const list = await viewer.get(`/api/v1/series/${id}/vintages`).expect(200);
     expect(list.body.items.map((v: { number: number }) => v.number)).toEqual([3, 2, 1]);
     const rows = await t.db('observations as o').join('vintages as v', 'v.id', 'o.vintage_id').where('v.series_id', id).groupBy('v.number').select('v.number').count({ n: '*' });
-    expect(Object.fromEntries(rows.map((r) => [r.number, Number(r.n)]))).toEqual({ 1: 8, 2: r1.body.vintage.number === 2 ? 9 : 10, 3: r1.body.vintage.number === 3 ? 9 : 10 });
+    expect(Object.fromEntries(rows.map((r) => [(r as { number: number }).number, Number(r.n)]))).toEqual({ 1: 8, 2: r1.body.vintage.number === 2 ? 9 : 10, 3: r1.body.vintage.number === 3 ? 9 : 10 });
   });
 
   it('answers 409 to any attempt to change a vintage, and the database refuses too', async () => {
@@ -280,7 +280,7 @@ describe('exports', () => {
       r.on('end', () => cb(null, Buffer.concat(chunks)));
     }).expect(200);
     const wb = new ExcelJS.Workbook();
-    await wb.xlsx.load(x.body as Buffer);
+    await wb.xlsx.load(x.body as never);
     const ws = wb.worksheets[0];
     expect(ws.getCell('C2').value).toBe(-1.5);
     expect(String(ws.getCell('D2').value)).toMatch(/^'=/);

@@ -1,4 +1,3 @@
-import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { decompose } from '../../server/analysis/index.js';
 import { makeTestApp, type TestApp } from '../helpers/app.js';

@@ -1,0 +1,113 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api } from '@/lib/api';
+import type { CreateSeriesBody } from '@schemas/catalogue';
+import type { Frequency } from '@analysis/frequency';
+
+export interface Series {
+  id: number;
+  code: string;
+  title: string;
+  frequency: Frequency;
+  unit: string;
+  seasonalAdjustment: 'sa' | 'nsa' | 'sca';
+  source: string;
+  notes: string | null;
+  sdmxKey: string | null;
+  createdAt: string;
+  updatedAt: string;
+}
+export interface SeriesListItem extends Series {
+  latestVintage: { number: number; asOf: string; loadedAt: string; lastPeriod: string | null; rowCount: number } | null;
+}
+export interface Vintage {
+  number: number;
+  asOf: string;
+  note: string | null;
+  rowCount: number;
+  checksum: string;
+  firstPeriod: string | null;
+  lastPeriod: string | null;
+  createdAt: string;
+  createdBy: { id: number; name: string } | null;
+}
+export interface Problem {
+  row: number | null;
+  column: string | null;
+  message: string;
+  severity: 'error' | 'warning';
+}
+export interface RevisionRow {
+  period: string;
+  from: number | null;
+  to: number | null;
+  revision: number | null;
+  percent: number | null;
+  status: 'revised' | 'new' | 'removed' | 'unchanged';
+}
+export interface RevisionSummary {
+  revised: number;
+  new: number;
+  removed: number;
+  unchanged: number;
+  meanRevision: number | null;
+  meanAbsoluteRevision: number | null;
+  maxAbsoluteRevision: number | null;
+}
+export interface SeriesPreview {
+  series: { id: number; code: string; title: string; frequency: Frequency; unit: string } | null;
+  key: string | null;
+  rowCount: number;
+  firstPeriod: string | null;
+  lastPeriod: string | null;
+  missingValues: number;
+  checksum: string | null;
+  latestVintage: number | null;
+  identicalToLatest: boolean;
+  changes: RevisionSummary | null;
+  changedPeriods: RevisionRow[];
+  problems: Problem[];
+  errors: number;
+  warnings: number;
+  observations?: { periods: string[]; values: (number | null)[] };
+}
+export interface LoadPreview {
+  format: string;
+  filename: string;
+  series: SeriesPreview[];
+  problems: Problem[];
+  errors: number;
+  warnings: number;
+  observations: number;
+  canStore: boolean;
+}
+
+export const useSeriesList = () => useQuery({ queryKey: ['series'], queryFn: () => api<{ items: SeriesListItem[] }>('/series').then((r) => r.items) });
+export const useSeries = (id: number) => useQuery({ queryKey: ['series', id], queryFn: () => api<Series & { vintageCount: number; latestVintage: Vintage | null }>(`/series/${id}`) });
+export const useVintages = (id: number) => useQuery({ queryKey: ['series', id, 'vintages'], queryFn: () => api<{ items: Vintage[] }>(`/series/${id}/vintages`).then((r) => r.items) });
+export const useObservations = (id: number, vintage: number | 'latest', enabled = true) =>
+  useQuery({
+    queryKey: ['series', id, 'observations', vintage],
+    queryFn: () => api<{ vintage: number; asOf: string; periods: string[]; values: (number | null)[] }>(`/series/${id}/vintages/${vintage}/observations`),
+    enabled,
+  });
+export const useRevisions = (id: number, from: number | undefined, to: number | undefined) =>
+  useQuery({
+    queryKey: ['series', id, 'revisions', from, to],
+    queryFn: () => api<{ items: RevisionRow[]; summary: RevisionSummary; from: Vintage; to: Vintage }>(`/series/${id}/revisions?from=${from}&to=${to}`),
+    enabled: from !== undefined && to !== undefined,
+  });
+export const useTriangle = (id: number, enabled: boolean) =>
+  useQuery({
+    queryKey: ['series', id, 'triangle'],
+    queryFn: () => api<{ vintages: { number: number; asOf: string }[]; periods: string[]; values: (number | null)[][] }>(`/series/${id}/revisions/triangle`),
+    enabled,
+  });
+export const useLoads = () => useQuery({ queryKey: ['loads'], queryFn: () => api<{ items: { id: number; filename: string; format: string; seriesCount: number; observationCount: number; note: string | null; createdAt: string; createdBy: string }[] }>('/loads').then((r) => r.items) });
+
+export function useSaveSeries(id?: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: Partial<CreateSeriesBody>) => (id ? api<Series>(`/series/${id}`, { method: 'PATCH', json: body }) : api<Series>('/series', { method: 'POST', json: body })),
+    onSuccess: () => qc.invalidateQueries({ queryKey: ['series'] }),
+  });
+}
