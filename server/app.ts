@@ -24,6 +24,7 @@ import { openapiRoutes } from './routes/openapi.js';
 import { peopleRoutes } from './routes/people.js';
 import { catalogueRoutes } from './routes/catalogue.js';
 import { decomposeRoutes } from './routes/decompose.js';
+import { studyRoutes } from './routes/studies.js';
 import { createAnalysisPool, type AnalysisPool } from './workers/pool.js';
 
 export interface AppOptions {
@@ -101,7 +102,7 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
   api.use(authenticate(db, deps.lucia));
   api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));

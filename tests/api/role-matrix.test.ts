@@ -71,6 +71,18 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/methods', allow: SIGNED_IN },
   { route: 'GET /api/v1/gain', path: '/api/v1/gain?method=hp', allow: SIGNED_IN },
   { route: 'GET /api/v1/lambda', path: '/api/v1/lambda?lambda=1600', allow: SIGNED_IN },
+  // Studies: economists make and change their own; everyone signed in reads and computes.
+  { route: 'GET /api/v1/studies', allow: SIGNED_IN },
+  { route: 'POST /api/v1/studies', body: {}, allow: ['economist'] },
+  { route: 'POST /api/v1/studies/preview', body: {}, allow: SIGNED_IN },
+  { route: 'POST /api/v1/studies/compare', body: {}, allow: SIGNED_IN },
+  { route: 'GET /api/v1/studies/:id', path: '/api/v1/studies/999999', allow: SIGNED_IN },
+  { route: 'PATCH /api/v1/studies/:id', path: '/api/v1/studies/999999', body: { title: 'x' }, allow: ['economist'] },
+  { route: 'DELETE /api/v1/studies/:id', path: '/api/v1/studies/999999', allow: ['economist'] },
+  { route: 'POST /api/v1/studies/:id/duplicate', path: '/api/v1/studies/999999/duplicate', allow: ['economist'] },
+  { route: 'GET /api/v1/studies/:id/result', path: '/api/v1/studies/999999/result', allow: SIGNED_IN },
+  { route: 'POST /api/v1/studies/:id/realtime', path: '/api/v1/studies/999999/realtime', allow: SIGNED_IN },
+  { route: 'GET /api/v1/studies/:id/export', path: '/api/v1/studies/999999/export', allow: SIGNED_IN },
 ];
 
 let t: TestApp;

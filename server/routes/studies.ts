@@ -1,0 +1,157 @@
+import { z } from 'zod';
+import type { AppDeps } from '../app.js';
+import { idParam, type RouteSpec } from '../lib/http.js';
+import { streamNdjson, wantsStream } from '../lib/stream.js';
+import { compareSchema, createStudySchema, studySpecSchema, updateStudySchema } from '../schemas/studies.js';
+import * as studies from '../services/studies.js';
+import { toCsv, toXlsx, type ExportTable } from '../importers/export.js';
+
+const ECONOMIST = ['economist'] as const;
+
+export function studyRoutes(deps: AppDeps): RouteSpec[] {
+  const { db } = deps;
+  return [
+    {
+      method: 'get',
+      path: '/studies',
+      access: 'signedIn',
+      summary: 'Saved studies, newest first (?mine=1, ?seriesId=, ?method=, ?q=)',
+      tags: ['studies'],
+      query: z.object({ mine: z.string().optional(), seriesId: z.coerce.number().int().positive().optional(), method: z.string().max(32).optional(), q: z.string().max(100).optional() }),
+      handler: async ({ query, auth }) => ({
+        items: await studies.listStudies(db, { owner: query.mine === '1' ? auth!.user.id : undefined, seriesId: query.seriesId, method: query.method, q: query.q }),
+      }),
+    },
+    {
+      method: 'post',
+      path: '/studies',
+      access: ECONOMIST,
+      summary: 'Save a study: a series, a vintage pin (a number or "latest"), a transform, a method and its parameters',
+      tags: ['studies'],
+      body: createStudySchema,
+      status: 201,
+      handler: ({ body, auth, req }) => studies.createStudy(db, auth!.user, body, req.ip),
+    },
+    {
+      method: 'post',
+      path: '/studies/preview',
+      access: 'signedIn',
+      summary: 'The result a study would give, without saving it (the study page recomputes with this)',
+      tags: ['studies'],
+      body: studySpecSchema,
+      handler: ({ body }) => studies.computeSpec(db, body),
+    },
+    {
+      method: 'post',
+      path: '/studies/compare',
+      access: 'signedIn',
+      summary: 'Cycles of several methods or series on aligned periods, with cross-correlations against a reference',
+      tags: ['studies'],
+      body: compareSchema,
+      handler: ({ body }) => studies.compare(db, body),
+    },
+    {
+      method: 'get',
+      path: '/studies/:id',
+      access: 'signedIn',
+      summary: 'A study',
+      tags: ['studies'],
+      handler: ({ params }) => studies.getStudy(db, idParam(params.id, 'The study')),
+    },
+    {
+      method: 'patch',
+      path: '/studies/:id',
+      access: ECONOMIST,
+      summary: 'Change one’s own study',
+      tags: ['studies'],
+      body: updateStudySchema,
+      handler: ({ params, body, auth }) => studies.updateStudy(db, auth!.user, idParam(params.id, 'The study'), body),
+    },
+    {
+      method: 'delete',
+      path: '/studies/:id',
+      access: ECONOMIST,
+      summary: 'Delete one’s own study',
+      tags: ['studies'],
+      handler: ({ params, auth, req }) => studies.deleteStudy(db, auth!.user, idParam(params.id, 'The study'), req.ip),
+    },
+    {
+      method: 'post',
+      path: '/studies/:id/duplicate',
+      access: ECONOMIST,
+      summary: 'Copy a study into one’s own',
+      tags: ['studies'],
+      status: 201,
+      handler: ({ params, auth }) => studies.duplicateStudy(db, auth!.user, idParam(params.id, 'The study')),
+    },
+    {
+      method: 'get',
+      path: '/studies/:id/result',
+      access: 'signedIn',
+      summary: 'The decomposition of the study’s data, with the vintage used, statistics, turning points and gain',
+      tags: ['studies'],
+      handler: ({ params }) => studies.studyResult(db, idParam(params.id, 'The study')),
+    },
+    {
+      method: 'post',
+      path: '/studies/:id/realtime',
+      access: 'signedIn',
+      summary: 'Real-time revision analysis: the method on every vintage, real-time against final, and the quasi-real-time variant',
+      tags: ['studies'],
+      raw: true,
+      handler: async ({ params, req, res }) => {
+        const id = idParam(params.id, 'The study');
+        if (wantsStream(req)) {
+          await streamNdjson(res, async (send) => {
+            const result = await studies.realtimeAnalysis(db, deps.pool, id, (phase, done, total) => send({ type: 'progress', phase, done, total }));
+            send({ type: 'result', result });
+          });
+          return;
+        }
+        res.json(await studies.realtimeAnalysis(db, deps.pool, id));
+      },
+    },
+    {
+      method: 'get',
+      path: '/studies/:id/export',
+      access: 'signedIn',
+      summary: 'The study’s numbers as CSV or XLSX, with the method line and the vintage stamp',
+      tags: ['studies'],
+      query: z.object({ format: z.enum(['csv', 'xlsx']).default('csv') }),
+      raw: true,
+      handler: async ({ params, query, res }) => {
+        const r = await studies.studyResult(db, idParam(params.id, 'The study'));
+        const table: ExportTable = {
+          columns: [
+            { header: 'period', kind: 'text' },
+            { header: `input (${r.transform === 'none' ? r.series.unit : r.transform})`, kind: 'number' },
+            { header: 'trend', kind: 'number' },
+            { header: `cycle (${r.unitOfCycle})`, kind: 'number' },
+            { header: 'method', kind: 'text' },
+            { header: 'vintage', kind: 'text' },
+          ],
+          rows: r.periods.map((p, i) => [p, r.input[i], r.trend[i], r.cycle[i], r.methodLine, r.vintageStamp]),
+          about: [
+            ['Study', r.study.title],
+            ['Series', `${r.series.code}: ${r.series.title}`],
+            ['Unit', r.series.unit],
+            ['Source', r.series.source],
+            ['Method', r.methodLine],
+            ['Vintage', r.vintageStamp],
+            ['Caution', studies.CAUTION_LINE],
+          ],
+        };
+        const name = `study-${r.study.id}-${r.series.code}`.replace(/[^A-Za-z0-9_.-]/g, '_');
+        if (query.format === 'xlsx') {
+          res.setHeader('Content-Type', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet');
+          res.setHeader('Content-Disposition', `attachment; filename="${name}.xlsx"`);
+          res.send(await toXlsx(table));
+        } else {
+          res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+          res.setHeader('Content-Disposition', `attachment; filename="${name}.csv"`);
+          res.send(toCsv(table));
+        }
+      },
+    },
+  ];
+}
