@@ -14,6 +14,8 @@ import { CataloguePage } from '@/features/catalogue/CataloguePage';
 import { EditSeriesPage, NewSeriesPage } from '@/features/catalogue/SeriesForm';
 import { LoadsPage } from '@/features/catalogue/LoadsPage';
 import { SeriesPage } from '@/features/catalogue/SeriesPage';
+import { StudiesPage } from '@/features/studies/StudiesPage';
+import { StudyPage } from '@/features/studies/StudyWorkspace';
 
 export const router = createBrowserRouter([
   { path: '/sign-in', element: <SignInPage /> },
@@ -29,7 +31,9 @@ export const router = createBrowserRouter([
       { path: 'catalogue/loads', element: <RequireRole roles={['steward', 'admin']}><LoadsPage /></RequireRole> },
       { path: 'catalogue/:id', element: <SeriesPage /> },
       { path: 'catalogue/:id/edit', element: <RequireRole roles={['steward', 'admin']}><EditSeriesPage /></RequireRole> },
-      { path: 'studies/*', element: <RequireRole roles={['economist', 'editor', 'admin']}><PlaceholderPage title="Studies" /></RequireRole> },
+      { path: 'studies', element: <RequireRole roles={['economist', 'editor', 'admin']}><StudiesPage /></RequireRole> },
+      { path: 'studies/new', element: <RequireRole roles={['economist']}><StudyPage /></RequireRole> },
+      { path: 'studies/:id', element: <RequireRole roles={['economist', 'editor', 'admin']}><StudyPage /></RequireRole> },
       { path: 'boards/*', element: <PlaceholderPage title="Boards" /> },
       { path: 'exhibits/*', element: <PlaceholderPage title="Exhibits" /> },
       { path: 'review/*', element: <RequireRole roles={['editor']}><PlaceholderPage title="Review desk" /></RequireRole> },

@@ -5,11 +5,11 @@ import { DEMO_PASSWORD } from '../../seeds/demo.js';
 export const ORIGIN = 'http://127.0.0.1:3000';
 
 /** A supertest agent that keeps cookies and sends our Origin, as a browser would. */
-export function browserAgent(t: Pick<TestApp, 'app'>) {
-  return request.agent(t.app).set('Origin', ORIGIN);
+export function browserAgent(t: Pick<TestApp, 'app'> & { config?: TestApp['config'] }) {
+  return request.agent(t.app).set('Origin', t.config?.publicOrigin ?? ORIGIN);
 }
 
-export async function signedIn(t: Pick<TestApp, 'app'>, email: string, password = DEMO_PASSWORD) {
+export async function signedIn(t: Pick<TestApp, 'app'> & { config?: TestApp['config'] }, email: string, password = DEMO_PASSWORD) {
   const agent = browserAgent(t);
   const res = await agent.post('/api/v1/auth/sign-in').send({ email, password });
   if (res.status !== 200) throw new Error(`sign-in as ${email} failed: ${res.status} ${JSON.stringify(res.body)}`);

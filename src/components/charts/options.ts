@@ -3,6 +3,9 @@ import { axisStyle, baseOption, COLORS, COMPARE_COLORS, fmt, FONT, HEADING_FONT,
 
 type Num = number | null;
 
+/** Axis ticks: thousands separated, no trailing zeros (1,250 · 0.5 · −2). */
+export const axisFmt = (v: number) => Number(v.toPrecision(8)).toLocaleString('en-US', { maximumFractionDigits: 4 });
+
 const xAxis = (periods: string[]) => ({ type: 'category', data: periods, boundaryGap: false, ...axisStyle, axisLabel: { ...axisStyle.axisLabel, hideOverlap: true } });
 const yAxis = (name?: string, extra: Record<string, unknown> = {}) => ({
   type: 'value',
@@ -11,7 +14,7 @@ const yAxis = (name?: string, extra: Record<string, unknown> = {}) => ({
   nameLocation: 'end',
   nameTextStyle: { color: COLORS.inkSoft, fontFamily: FONT, align: 'left' },
   ...axisStyle,
-  axisLabel: { ...axisStyle.axisLabel, formatter: (v: number) => fmt(v) },
+  axisLabel: { ...axisStyle.axisLabel, formatter: axisFmt },
   ...extra,
 });
 const zoom = (n: number) => (n > 120 ? [{ type: 'inside', start: 0, end: 100 }, { type: 'slider', height: 18, bottom: 4, borderColor: COLORS.hairline }] : []);
@@ -106,10 +109,10 @@ export function gainChart(opts: { periods: number[]; gain: number[]; cutoff: num
   return {
     ...baseOption(),
     legend: { show: false },
-    grid: { left: 48, right: 24, top: 28, bottom: 40 },
+    grid: { left: 48, right: 24, top: 32, bottom: 40 },
     tooltip: { trigger: 'axis', valueFormatter: (v: number) => fmt(v, 3) },
     xAxis: { type: 'log', name: `period (${opts.word})`, nameLocation: 'middle', nameGap: 26, ...axisStyle, min: 2, max: Math.max(...opts.periods) },
-    yAxis: { type: 'value', name: 'gain of the cycle filter', min: 0, ...axisStyle },
+    yAxis: { type: 'value', name: 'gain', min: 0, ...axisStyle },
     series: [
       {
         name: 'gain',

@@ -1,0 +1,57 @@
+import { useState } from 'react';
+import { Link, useNavigate } from 'react-router-dom';
+import { METHOD_NAMES, METHODS } from '@analysis/frequency';
+import { DataTable } from '@/components/DataTable';
+import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
+import { hasRole, useMe } from '@/features/auth/api';
+import { useStudies } from './api';
+
+export function StudiesPage() {
+  const me = useMe();
+  const [mine, setMine] = useState(hasRole(me.data, 'economist'));
+  const [method, setMethod] = useState('');
+  const [q, setQ] = useState('');
+  const studies = useStudies({ mine, method: method || undefined, q: q || undefined });
+  const navigate = useNavigate();
+  return (
+    <>
+      <PageHeader title="Studies" actions={hasRole(me.data, 'economist') && <Link to="/studies/new" className="btn">New study</Link>}>
+        Saved decompositions: a series, a vintage (pinned, or the latest), a method and its parameters.
+      </PageHeader>
+      <div className="mb-3 flex flex-wrap items-center gap-3">
+        <input className="field max-w-xs" placeholder="Search title or series" value={q} onChange={(e) => setQ(e.target.value)} aria-label="Search studies" />
+        <select className="field max-w-[14rem]" value={method} onChange={(e) => setMethod(e.target.value)} aria-label="Filter by method">
+          <option value="">All methods</option>
+          {METHODS.map((m) => (
+            <option key={m} value={m}>
+              {METHOD_NAMES[m]}
+            </option>
+          ))}
+        </select>
+        <label className="flex items-center gap-2 text-sm">
+          <input type="checkbox" checked={mine} onChange={(e) => setMine(e.target.checked)} /> Only mine
+        </label>
+      </div>
+      {studies.isPending && <Spinner />}
+      <ErrorNote error={studies.error} />
+      {studies.data && studies.data.length === 0 && (
+        <EmptyState title="No studies yet">Open a series in the Catalogue and choose “Decompose in a study”, or start a new study here.</EmptyState>
+      )}
+      {studies.data && studies.data.length > 0 && (
+        <DataTable
+          data={studies.data}
+          onRowClick={(s) => navigate(`/studies/${s.id}`)}
+          testId="studies-table"
+          columns={[
+            { accessorKey: 'title', header: 'Title', cell: (c) => <Link to={`/studies/${c.row.original.id}`} className="font-semibold text-trend hover:underline">{c.getValue()}</Link> },
+            { id: 'series', header: 'Series', accessorFn: (s) => s.series.code },
+            { id: 'method', header: 'Method', accessorFn: (s) => METHOD_NAMES[s.method] },
+            { id: 'vintage', header: 'Vintage', accessorFn: (s) => (s.vintage === 'latest' ? 'latest' : `pinned: ${s.vintage}`) },
+            { id: 'owner', header: 'Owner', accessorFn: (s) => s.owner.name },
+            { accessorKey: 'updatedAt', header: 'Changed', cell: (c) => formatDate(c.getValue(), true) },
+          ]}
+        />
+      )}
+    </>
+  );
+}

@@ -1,0 +1,231 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useEffect, useState } from 'react';
+import { Controller, useForm, useWatch } from 'react-hook-form';
+import { Link, useNavigate, useParams, useSearchParams } from 'react-router-dom';
+import { defaultParams, METHOD_NAMES, METHODS, type Method } from '@analysis/frequency';
+import { TRANSFORM_LABELS } from '@analysis/transform';
+import { createStudySchema, type CreateStudyBody, type StudySpec } from '@schemas/studies';
+import { EmptyState, ErrorNote, Field, PageHeader, Spinner } from '@/components/ui';
+import { hasRole, useMe } from '@/features/auth/api';
+import { useSeriesList, useVintages } from '@/features/catalogue/api';
+import { API } from '@/lib/api';
+import { useDebounced, usePreview, useSaveStudy, useStudy, useStudyAction, type Study } from './api';
+import { CompareView } from './CompareView';
+import { DecompositionView } from './DecompositionView';
+import { ParamsEditor } from './ParamsEditor';
+import { RealtimeView } from './RealtimeView';
+
+export function StudyPage() {
+  const { id } = useParams();
+  const study = useStudy(id ? Number(id) : undefined);
+  const [params] = useSearchParams();
+  if (id && study.isPending) return <Spinner />;
+  if (id && study.error) return <ErrorNote error={study.error} />;
+  return <Workspace key={id ?? 'new'} study={study.data} seriesId={Number(params.get('seriesId')) || undefined} />;
+}
+
+function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
+  const me = useMe();
+  const navigate = useNavigate();
+  const list = useSeriesList();
+  const save = useSaveStudy(study?.id);
+  const action = useStudyAction();
+  const [tab, setTab] = useState<'decomposition' | 'compare' | 'realtime'>('decomposition');
+  const isOwner = !study || study.owner.id === me.data?.id;
+  const canEdit = hasRole(me.data, 'economist') && isOwner;
+  const form = useForm<CreateStudyBody>({
+    resolver: zodResolver(createStudySchema) as never,
+    defaultValues: study
+      ? { title: study.title, notes: study.notes ?? '', seriesId: study.seriesId, vintage: study.vintage, transform: study.transform, method: study.method, params: study.params }
+      : { title: '', notes: '', seriesId: seriesId ?? (undefined as unknown as number), vintage: 'latest', transform: 'log100', method: 'hp', params: {} },
+  });
+  const values = useWatch({ control: form.control });
+  const series = list.data?.find((s) => s.id === values.seriesId);
+  const frequency = series?.frequency ?? study?.series.frequency ?? 'Q';
+  const vintages = useVintages(values.seriesId ?? 0);
+
+  // New studies start from the conventional parameters of the series' frequency; levels in
+  // percent (rates, ratios) are decomposed without a log.
+  useEffect(() => {
+    if (!study && series && !form.getValues('title')) {
+      form.setValue('title', `${series.code}: ${METHOD_NAMES[form.getValues('method')]}`);
+      if (/percent|rate/i.test(series.unit)) form.setValue('transform', 'none');
+    }
+  }, [series?.id]);
+
+  const spec: StudySpec | null = values.seriesId ? { seriesId: values.seriesId, vintage: values.vintage ?? 'latest', transform: values.transform ?? 'none', method: values.method ?? 'hp', params: (values.params ?? {}) as Record<string, unknown> } : null;
+  // Recompute after the controls have been still for a moment: dragging λ sends no request per pixel.
+  const debounced = useDebounced(spec, 350);
+  const preview = usePreview(debounced);
+  const changed = !!study && JSON.stringify({ ...spec, title: values.title, notes: values.notes ?? '' }) !== JSON.stringify({ seriesId: study.seriesId, vintage: study.vintage, transform: study.transform, method: study.method, params: study.params, title: study.title, notes: study.notes ?? '' });
+
+  const submit = form.handleSubmit((v) => save.mutate({ ...v, params: preview.data && preview.data.method === v.method ? (preview.data.params as Record<string, unknown>) : v.params }, { onSuccess: (s) => navigate(`/studies/${s.id}`, { replace: true }) }));
+  const paramError = preview.error && !preview.isFetching ? (preview.error as Error).message : null;
+
+  return (
+    <>
+      <PageHeader
+        kicker={<Link to="/studies" className="hover:underline">Studies</Link>}
+        title={values.title || 'New study'}
+        actions={
+          <>
+            {study && (
+              <>
+                <a className="btn-quiet" href={`${API}/studies/${study.id}/export?format=csv`} download>
+                  CSV
+                </a>
+                <a className="btn-quiet" href={`${API}/studies/${study.id}/export?format=xlsx`} download>
+                  XLSX
+                </a>
+              </>
+            )}
+            {study && hasRole(me.data, 'economist') && (
+              <button className="btn-quiet" onClick={() => action.mutate({ id: study.id, action: 'duplicate' }, { onSuccess: (s) => { if (s) navigate(`/studies/${s.id}`); } })}>
+                Duplicate
+              </button>
+            )}
+            {study && canEdit && (
+              <button className="btn-danger" onClick={() => confirm('Delete this study? Exhibits already submitted keep their own frozen copy.') && action.mutate({ id: study.id, action: 'delete' }, { onSuccess: () => navigate('/studies') })}>
+                Delete
+              </button>
+            )}
+          </>
+        }
+      >
+        {study ? <>Owned by {study.owner.name}{!isOwner && ' — duplicate it to change it'}</> : 'Choose a series and a method; the charts follow your changes.'}
+      </PageHeader>
+      <ErrorNote error={action.error} />
+      <div className="grid gap-6 lg:grid-cols-[22rem_minmax(0,1fr)]">
+        <form noValidate className="card h-fit space-y-4 p-4" onSubmit={submit} aria-label="Study parameters">
+          <Field label="Series" htmlFor="series" error={form.formState.errors.seriesId?.message}>
+            <Controller
+              control={form.control}
+              name="seriesId"
+              render={({ field }) => (
+                <select
+                  id="series"
+                  className="field"
+                  value={field.value ?? ''}
+                  disabled={!canEdit}
+                  onChange={(e) => {
+                    const next = list.data?.find((s) => s.id === Number(e.target.value));
+                    field.onChange(Number(e.target.value));
+                    form.setValue('vintage', 'latest');
+                    if (next) form.setValue('params', {});
+                  }}
+                >
+                  <option value="" disabled>
+                    Choose a series…
+                  </option>
+                  {list.data?.filter((s) => s.latestVintage).map((s) => (
+                    <option key={s.id} value={s.id}>
+                      {s.code} — {s.title}
+                    </option>
+                  ))}
+                </select>
+              )}
+            />
+          </Field>
+          <div className="grid grid-cols-2 gap-2">
+            <Field label="Vintage" htmlFor="vintage">
+              <Controller
+                control={form.control}
+                name="vintage"
+                render={({ field }) => (
+                  <select id="vintage" className="field" disabled={!canEdit} value={String(field.value)} onChange={(e) => field.onChange(e.target.value === 'latest' ? 'latest' : Number(e.target.value))}>
+                    <option value="latest">latest (follows loads)</option>
+                    {vintages.data?.map((v) => (
+                      <option key={v.number} value={v.number}>
+                        {v.number} — {v.asOf}
+                      </option>
+                    ))}
+                  </select>
+                )}
+              />
+            </Field>
+            <Field label="Transform" htmlFor="transform">
+              <select id="transform" className="field" disabled={!canEdit} {...form.register('transform')}>
+                {(['none', 'log', 'log100'] as const).map((t) => (
+                  <option key={t} value={t}>
+                    {TRANSFORM_LABELS[t]}
+                  </option>
+                ))}
+              </select>
+            </Field>
+          </div>
+          <Field label="Method" htmlFor="method">
+            <Controller
+              control={form.control}
+              name="method"
+              render={({ field }) => (
+                <select
+                  id="method"
+                  className="field"
+                  disabled={!canEdit}
+                  value={field.value}
+                  onChange={(e) => {
+                    const m = e.target.value as Method;
+                    field.onChange(m);
+                    form.setValue('params', m === 'l1-trend' ? { lambda: 10 } : { ...defaultParams(m, frequency) });
+                  }}
+                >
+                  {METHODS.map((m) => (
+                    <option key={m} value={m}>
+                      {METHOD_NAMES[m]}
+                    </option>
+                  ))}
+                </select>
+              )}
+            />
+          </Field>
+          <fieldset disabled={!canEdit}>
+            <Controller
+              control={form.control}
+              name="params"
+              render={({ field }) => (
+                <ParamsEditor method={values.method ?? 'hp'} frequency={frequency} params={{ ...defaultParams(values.method ?? 'hp', frequency), ...(field.value ?? {}) }} onChange={field.onChange} errors={paramError} />
+              )}
+            />
+          </fieldset>
+          <Field label="Title" htmlFor="title" error={form.formState.errors.title?.message}>
+            <input id="title" className="field" disabled={!canEdit} {...form.register('title')} />
+          </Field>
+          <Field label="Notes" htmlFor="notes">
+            <textarea id="notes" rows={3} className="field" disabled={!canEdit} {...form.register('notes')} />
+          </Field>
+          <ErrorNote error={save.error} />
+          {canEdit && (
+            <button className="btn w-full justify-center" disabled={save.isPending || (!!study && !changed)}>
+              {study ? (changed ? 'Save the changes' : 'Saved') : 'Save the study'}
+            </button>
+          )}
+        </form>
+        <section aria-label="Results">
+          <div role="tablist" className="mb-4 flex gap-1 border-b border-hairline">
+            {(
+              [
+                ['decomposition', 'Decomposition'],
+                ['compare', 'Compare'],
+                ['realtime', 'Real-time revisions'],
+              ] as const
+            ).map(([t, label]) => (
+              <button key={t} role="tab" aria-selected={tab === t} onClick={() => setTab(t)} className={`-mb-px border-b-2 px-3 py-2 text-sm font-semibold ${tab === t ? 'border-trend text-ink' : 'border-transparent text-ink-soft hover:text-ink'}`}>
+                {label}
+              </button>
+            ))}
+          </div>
+          {!spec && <EmptyState title="Choose a series">Only series with at least one vintage can be decomposed.</EmptyState>}
+          {tab === 'decomposition' && spec && (
+            <>
+              {preview.isPending && <Spinner label="Decomposing…" />}
+              {preview.error && !preview.data && <ErrorNote error={preview.error} />}
+              {preview.data && <DecompositionView result={preview.data} updating={preview.isFetching || JSON.stringify(debounced) !== JSON.stringify(spec)} title={values.title || 'Study'} />}
+            </>
+          )}
+          {tab === 'compare' && spec && <CompareView spec={spec} frequency={frequency} />}
+          {tab === 'realtime' && <RealtimeView studyId={study?.id} />}
+        </section>
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,134 @@
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useEffect, useState } from 'react';
+import { api } from '@/lib/api';
+import type { CompareBody, CreateStudyBody, StudySpec } from '@schemas/studies';
+import type { Method } from '@analysis/frequency';
+
+export interface Study {
+  id: number;
+  title: string;
+  notes: string | null;
+  seriesId: number;
+  series: { code: string; title: string; frequency: 'A' | 'Q' | 'M'; unit: string };
+  vintage: number | 'latest';
+  transform: 'none' | 'log' | 'log100';
+  method: Method;
+  params: Record<string, unknown>;
+  owner: { id: number; name: string };
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface StudyResult {
+  method: Method;
+  params: Record<string, number | string | boolean>;
+  transform: string;
+  frequency: 'A' | 'Q' | 'M';
+  periods: string[];
+  input: (number | null)[];
+  trend: (number | null)[];
+  cycle: (number | null)[];
+  warnings: string[];
+  diagnostics: Record<string, unknown>;
+  vintage: number;
+  asOf: string;
+  vintagePin: number | 'latest';
+  series: { id: number; code: string; title: string; unit: string; frequency: 'A' | 'Q' | 'M'; source: string };
+  statistics: Record<string, number | null>;
+  turningPoints: { index: number; period: string; type: 'peak' | 'trough'; value: number }[];
+  gain: { periods: number[]; gain: number[]; cutoff: number | null; band?: [number, number]; note?: string };
+  methodLine: string;
+  vintageStamp: string;
+  twoSided: boolean;
+  endOfSamplePeriods: number;
+  cautions: string[];
+  unitOfCycle: string;
+}
+
+export interface CompareResult {
+  periods: string[];
+  reference: number;
+  mixedFrequencies: boolean;
+  items: {
+    label: string;
+    code: string;
+    method: Method;
+    methodLine: string;
+    vintageStamp: string;
+    unitOfCycle: string;
+    cycle: (number | null)[];
+    statistics: Record<string, number | null>;
+    crossCorrelations: { lag: number; r: number | null; n: number }[];
+  }[];
+}
+
+export interface RealtimeResult {
+  unitOfCycle: string;
+  methodLine: string;
+  finalVintage: number;
+  fan: { vintage: number; asOf: string; periods: string[]; cycle: (number | null)[] }[];
+  final: { vintage: number; periods: string[]; cycle: (number | null)[] };
+  realTime: { vintage: number; asOf: string; period: string | null; value: number | null; final: number | null }[];
+  quasiRealTime: { period: string; value: number | null; final: number | null }[];
+  statistics: Record<'realTime' | 'quasiRealTime' | 'dataRevisions', Record<string, number | null>>;
+  note: string | null;
+  word: string;
+}
+
+export function useDebounced<T>(value: T, ms: number): T {
+  const [v, setV] = useState(value);
+  useEffect(() => {
+    const t = setTimeout(() => setV(value), ms);
+    return () => clearTimeout(t);
+  }, [JSON.stringify(value), ms]);
+  return v;
+}
+
+export const useStudies = (filter: { mine?: boolean; method?: string; q?: string; seriesId?: number }) =>
+  useQuery({
+    queryKey: ['studies', filter],
+    queryFn: () => {
+      const p = new URLSearchParams();
+      if (filter.mine) p.set('mine', '1');
+      if (filter.method) p.set('method', filter.method);
+      if (filter.q) p.set('q', filter.q);
+      if (filter.seriesId) p.set('seriesId', String(filter.seriesId));
+      return api<{ items: Study[] }>(`/studies?${p}`).then((r) => r.items);
+    },
+  });
+
+export const useStudy = (id: number | undefined) => useQuery({ queryKey: ['study', id], queryFn: () => api<Study>(`/studies/${id}`), enabled: !!id });
+
+/** The result for the parameters on screen; the last result stays shown while the next one loads. */
+export const usePreview = (spec: StudySpec | null) =>
+  useQuery({
+    queryKey: ['preview', spec],
+    queryFn: ({ signal }) => api<StudyResult>('/studies/preview', { method: 'POST', json: spec, signal }),
+    enabled: !!spec && !!spec.seriesId,
+    placeholderData: keepPreviousData,
+    staleTime: 60_000,
+    retry: false,
+  });
+
+export const useCompare = (body: CompareBody | null) =>
+  useQuery({ queryKey: ['compare', body], queryFn: () => api<CompareResult>('/studies/compare', { method: 'POST', json: body }), enabled: !!body && body.items.length > 0, placeholderData: keepPreviousData, retry: false });
+
+export function useSaveStudy(id?: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: CreateStudyBody) => (id ? api<Study>(`/studies/${id}`, { method: 'PATCH', json: body }) : api<Study>('/studies', { method: 'POST', json: body })),
+    onSuccess: (s) => {
+      qc.invalidateQueries({ queryKey: ['studies'] });
+      qc.setQueryData(['study', s.id], s);
+    },
+  });
+}
+
+export function useStudyAction() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, action }: { id: number; action: 'duplicate' | 'delete' }): Promise<Study | null> =>
+      action === 'duplicate' ? api<Study>(`/studies/${id}/duplicate`, { method: 'POST' }) : api<void>(`/studies/${id}`, { method: 'DELETE' }).then(() => null),
+    onSuccess: () => qc.invalidateQueries({ queryKey: ['studies'] }),
+  });
+}
