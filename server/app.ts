@@ -25,6 +25,8 @@ import { peopleRoutes } from './routes/people.js';
 import { catalogueRoutes } from './routes/catalogue.js';
 import { decomposeRoutes } from './routes/decompose.js';
 import { studyRoutes } from './routes/studies.js';
+import { boardRoutes } from './routes/boards.js';
+import { exhibitRoutes } from './routes/exhibits.js';
 import { createAnalysisPool, type AnalysisPool } from './workers/pool.js';
 
 export interface AppOptions {
@@ -102,7 +104,7 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
   api.use(authenticate(db, deps.lucia));
   api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));

@@ -83,6 +83,29 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/studies/:id/result', path: '/api/v1/studies/999999/result', allow: SIGNED_IN },
   { route: 'POST /api/v1/studies/:id/realtime', path: '/api/v1/studies/999999/realtime', allow: SIGNED_IN },
   { route: 'GET /api/v1/studies/:id/export', path: '/api/v1/studies/999999/export', allow: SIGNED_IN },
+  // Boards: economists compose; everyone signed in reads shared boards.
+  { route: 'GET /api/v1/boards', allow: SIGNED_IN },
+  { route: 'POST /api/v1/boards', body: {}, allow: ['economist'] },
+  { route: 'GET /api/v1/boards/:id', path: '/api/v1/boards/999999', allow: SIGNED_IN },
+  { route: 'PATCH /api/v1/boards/:id', path: '/api/v1/boards/999999', body: { title: 'x' }, allow: ['economist'] },
+  { route: 'DELETE /api/v1/boards/:id', path: '/api/v1/boards/999999', allow: ['economist'] },
+  { route: 'POST /api/v1/boards/:id/panels', path: '/api/v1/boards/999999/panels', body: {}, allow: ['economist'] },
+  { route: 'PUT /api/v1/boards/:id/panels/order', path: '/api/v1/boards/999999/panels/order', body: { panelIds: [1] }, allow: ['economist'] },
+  { route: 'PATCH /api/v1/boards/:id/panels/:panelId', path: '/api/v1/boards/999999/panels/1', body: { title: 'x' }, allow: ['economist'] },
+  { route: 'DELETE /api/v1/boards/:id/panels/:panelId', path: '/api/v1/boards/999999/panels/1', allow: ['economist'] },
+  { route: 'GET /api/v1/boards/:id/panels/:panelId/data', path: '/api/v1/boards/999999/panels/1/data', allow: SIGNED_IN },
+  // Exhibits: economists draft; moves are checked per person by the state machine (exhibits.test.ts).
+  { route: 'GET /api/v1/exhibits', allow: SIGNED_IN },
+  { route: 'POST /api/v1/exhibits', body: {}, allow: ['economist'] },
+  { route: 'GET /api/v1/exhibits/:id', path: '/api/v1/exhibits/999999', allow: SIGNED_IN },
+  { route: 'PATCH /api/v1/exhibits/:id', path: '/api/v1/exhibits/999999', body: { title: 'x' }, allow: ['economist'] },
+  { route: 'DELETE /api/v1/exhibits/:id', path: '/api/v1/exhibits/999999', allow: ['economist'] },
+  { route: 'POST /api/v1/exhibits/:id/transitions', path: '/api/v1/exhibits/999999/transitions', body: {}, allow: SIGNED_IN },
+  { route: 'GET /api/v1/exhibits/:id/diff', path: '/api/v1/exhibits/999999/diff', allow: SIGNED_IN },
+  { route: 'GET /api/v1/exhibits/:id/data', path: '/api/v1/exhibits/999999/data', allow: SIGNED_IN },
+  { route: 'GET /api/v1/review', allow: ['editor'] },
+  { route: 'GET /api/v1/public/exhibits/:slug', path: '/api/v1/public/exhibits/nothing', allow: PUBLIC },
+  { route: 'GET /api/v1/public/exhibits/:slug/data', path: '/api/v1/public/exhibits/nothing/data', allow: PUBLIC },
 ];
 
 let t: TestApp;

@@ -1,0 +1,114 @@
+import { z } from 'zod';
+import type { AppDeps } from '../app.js';
+import { toCsv, toXlsx } from '../importers/export.js';
+import { idParam, type RouteSpec } from '../lib/http.js';
+import { createExhibitSchema, transitionSchema, updateExhibitSchema } from '../schemas/boards.js';
+import * as exhibits from '../services/exhibits.js';
+
+export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
+  const { db } = deps;
+  const download = (slug?: boolean): RouteSpec => ({
+    method: 'get',
+    path: slug ? '/public/exhibits/:slug/data' : '/exhibits/:id/data',
+    access: slug ? 'public' : 'signedIn',
+    summary: slug ? 'The data behind a published exhibit, by its public link' : 'The data behind an exhibit as CSV or XLSX, stamped with vintage and method',
+    tags: ['exhibits'],
+    query: z.object({ format: z.enum(['csv', 'xlsx']).default('csv') }),
+    raw: true,
+    handler: async ({ params, query, auth, res }) => {
+      const t = await exhibits.exhibitTable(deps, auth?.user ?? null, slug ? 0 : idParam(params.id, 'The exhibit'), slug ? z.string().max(64).parse(params.slug) : undefined);
+      const name = `exhibit-${t.exhibit.id}-r${t.exhibit.revision}`;
+      const table = { columns: t.columns, rows: t.rows, about: t.about, sheetName: 'Data' };
+      if (query.format === 'xlsx') {
+        res.setHeader('Content-Type', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet');
+        res.setHeader('Content-Disposition', `attachment; filename="${name}.xlsx"`);
+        res.send(await toXlsx(table));
+      } else {
+        res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+        res.setHeader('Content-Disposition', `attachment; filename="${name}.csv"`);
+        res.send(toCsv(table));
+      }
+    },
+  });
+  return [
+    {
+      method: 'get',
+      path: '/exhibits',
+      access: 'signedIn',
+      summary: 'Exhibits the user may see (readers: published ones), newest first',
+      tags: ['exhibits'],
+      query: z.object({ status: z.string().max(16).optional(), mine: z.string().optional() }),
+      handler: async ({ query, auth }) => ({ items: await exhibits.listExhibits(db, auth!.user, { status: query.status, mine: query.mine === '1' }) }),
+    },
+    {
+      method: 'post',
+      path: '/exhibits',
+      access: ['economist'],
+      summary: 'Draft an exhibit from a study or a board panel',
+      tags: ['exhibits'],
+      body: createExhibitSchema,
+      status: 201,
+      handler: ({ body, auth, req }) => exhibits.createExhibit(deps, auth!.user, body, req.ip),
+    },
+    {
+      method: 'get',
+      path: '/exhibits/:id',
+      access: 'signedIn',
+      summary: 'An exhibit with its status, snapshot (once submitted) and events',
+      tags: ['exhibits'],
+      handler: ({ params, auth }) => exhibits.getExhibit(deps, auth!.user, idParam(params.id, 'The exhibit')),
+    },
+    {
+      method: 'patch',
+      path: '/exhibits/:id',
+      access: ['economist'],
+      summary: 'Edit one’s own draft or returned exhibit (409 once approved or published)',
+      tags: ['exhibits'],
+      body: updateExhibitSchema,
+      handler: ({ params, body, auth }) => exhibits.updateExhibit(deps, auth!.user, idParam(params.id, 'The exhibit'), body),
+    },
+    {
+      method: 'delete',
+      path: '/exhibits/:id',
+      access: ['economist'],
+      summary: 'Delete one’s own draft',
+      tags: ['exhibits'],
+      handler: ({ params, auth }) => exhibits.deleteExhibit(deps, auth!.user, idParam(params.id, 'The exhibit')),
+    },
+    {
+      method: 'post',
+      path: '/exhibits/:id/transitions',
+      access: 'signedIn',
+      summary: 'Move an exhibit: submit (in_review), return (comment), approve, publish, withdraw (reason)',
+      tags: ['exhibits'],
+      body: transitionSchema,
+      handler: ({ params, body, auth, req }) => exhibits.transition(deps, auth!.user, idParam(params.id, 'The exhibit'), body.to, body.comment || undefined, req.ip),
+    },
+    {
+      method: 'get',
+      path: '/exhibits/:id/diff',
+      access: 'signedIn',
+      summary: 'What changed between the latest revision and the one before (data, parameters, text)',
+      tags: ['exhibits'],
+      handler: ({ params, auth }) => exhibits.exhibitDiff(deps, auth!.user, idParam(params.id, 'The exhibit')),
+    },
+    download(false),
+    {
+      method: 'get',
+      path: '/review',
+      access: ['editor'],
+      summary: 'The Review desk: exhibits in review, oldest first',
+      tags: ['exhibits'],
+      handler: async ({ auth }) => ({ items: await exhibits.reviewQueue(deps, auth!.user) }),
+    },
+    {
+      method: 'get',
+      path: '/public/exhibits/:slug',
+      access: 'public',
+      summary: 'A published exhibit by its public link, when an administrator allows public links',
+      tags: ['exhibits'],
+      handler: ({ params }) => exhibits.publicExhibit(deps, z.string().max(64).parse(params.slug)),
+    },
+    download(true),
+  ];
+}

@@ -1,0 +1,273 @@
+/**
+ * Boards: pages of panels an economist composes and shares with the team (or keeps private).
+ * A panel shows one study, or compares several studies across methods or series, or one study
+ * across vintages. Panels that follow "latest" say when a newer vintage was loaded.
+ */
+import type { Knex } from 'knex';
+import type { Db } from '../db.js';
+import { conflict, forbidden, notFound } from '../lib/errors.js';
+import type { PublicUser } from '../schemas/auth.js';
+import type { PanelBody } from '../schemas/boards.js';
+import { computeSpec, getStudy, type Study, type StudyResult } from './studies.js';
+
+export interface Board {
+  id: number;
+  title: string;
+  description: string | null;
+  visibility: 'private' | 'team';
+  owner: { id: number; name: string };
+  createdAt: string;
+  updatedAt: string;
+  panelCount?: number;
+}
+
+export interface Panel {
+  id: number;
+  boardId: number;
+  position: number;
+  width: 1 | 2;
+  height: 's' | 'm' | 'l';
+  title: string;
+  notes: string | null;
+  kind: 'study' | 'compare';
+  studyIds: number[];
+  compareBy: 'methods' | 'series' | 'vintages' | null;
+  vintages: number[] | null;
+  updatedAt: string;
+}
+
+const iso = (d: Date | string) => new Date(d).toISOString();
+
+function toBoard(r: Record<string, any>): Board {
+  return { id: r.id, title: r.title, description: r.description, visibility: r.visibility, owner: { id: r.owner_id, name: r.owner_name }, createdAt: iso(r.created_at), updatedAt: iso(r.updated_at), panelCount: r.panel_count === undefined ? undefined : Number(r.panel_count) };
+}
+
+function toPanel(r: Record<string, any>): Panel {
+  const ids = JSON.parse(r.study_ids) as number[];
+  return {
+    id: r.id,
+    boardId: r.board_id,
+    position: r.position,
+    width: r.width === 2 ? 2 : 1,
+    height: r.height,
+    title: r.title,
+    notes: r.notes,
+    kind: ids.length > 1 || r.compare_by === 'vintages' ? 'compare' : 'study',
+    studyIds: ids,
+    compareBy: r.compare_by,
+    vintages: r.vintages ? JSON.parse(r.vintages) : null,
+    updatedAt: iso(r.updated_at),
+  };
+}
+
+export async function listBoards(db: Db, user: PublicUser) {
+  const rows = await db('boards as b')
+    .join('users as u', 'u.id', 'b.owner_id')
+    .leftJoin('board_panels as p', 'p.board_id', 'b.id')
+    .where((w) => w.where('b.visibility', 'team').orWhere('b.owner_id', user.id))
+    .groupBy('b.id', 'u.name')
+    .orderBy('b.updated_at', 'desc')
+    .select('b.*', 'u.name as owner_name', db.raw('COUNT(p.id) AS panel_count'));
+  return rows.map(toBoard);
+}
+
+async function boardRow(db: Db | Knex.Transaction, id: number) {
+  return db('boards as b').join('users as u', 'u.id', 'b.owner_id').where('b.id', id).first('b.*', 'u.name as owner_name');
+}
+
+/** A board the user may see (team boards, or their own private ones). */
+export async function getBoard(db: Db, user: PublicUser, id: number) {
+  const row = await boardRow(db, id);
+  if (!row || (row.visibility === 'private' && row.owner_id !== user.id)) throw notFound('The board');
+  const panels = (await db('board_panels').where('board_id', id).orderBy('position')).map(toPanel);
+  return { ...toBoard(row), panels };
+}
+
+async function ownBoard(db: Db | Knex.Transaction, user: PublicUser, id: number) {
+  const row = await boardRow(db, id);
+  if (!row || (row.visibility === 'private' && row.owner_id !== user.id)) throw notFound('The board');
+  if (row.owner_id !== user.id) throw forbidden('not_owner', `Only ${row.owner_name}, who composed this board, can change it.`);
+  return row;
+}
+
+export async function createBoard(db: Db, user: PublicUser, body: { title: string; description?: string; visibility: 'private' | 'team' }) {
+  const [id] = await db('boards').insert({ owner_id: user.id, title: body.title, description: body.description ?? null, visibility: body.visibility });
+  return getBoard(db, user, id);
+}
+
+export async function updateBoard(db: Db, user: PublicUser, id: number, body: Partial<{ title: string; description: string; visibility: 'private' | 'team' }>) {
+  await ownBoard(db, user, id);
+  await db('boards').where('id', id).update({ ...body, updated_at: new Date() });
+  return getBoard(db, user, id);
+}
+
+export async function deleteBoard(db: Db, user: PublicUser, id: number) {
+  await ownBoard(db, user, id);
+  const [{ n }] = await db('exhibits as e').join('board_panels as p', 'p.id', 'e.panel_id').where('p.board_id', id).whereIn('e.status', ['draft', 'in_review', 'returned']).count({ n: '*' });
+  if (Number(n) > 0) throw conflict('board_in_use', 'An exhibit not yet published is drafted from a panel of this board; finish or delete it first.');
+  await db('boards').where('id', id).delete();
+}
+
+async function checkStudies(db: Db, ids: number[]) {
+  for (const id of ids) await getStudy(db, id);
+}
+
+export async function addPanel(db: Db, user: PublicUser, boardId: number, body: PanelBody) {
+  await checkStudies(db, body.studyIds);
+  return db.transaction(async (trx) => {
+    await ownBoard(trx, user, boardId);
+    await trx('boards').where('id', boardId).forUpdate().select('id');
+    const [{ max }] = await trx('board_panels').where('board_id', boardId).max({ max: 'position' });
+    const [id] = await trx('board_panels').insert({
+      board_id: boardId,
+      position: (max ?? -1) + 1,
+      width: body.width,
+      height: body.height,
+      title: body.title,
+      notes: body.notes ?? null,
+      kind: body.studyIds.length > 1 || body.compareBy === 'vintages' ? 'compare' : 'study',
+      study_ids: JSON.stringify(body.studyIds),
+      compare_by: body.studyIds.length > 1 || body.compareBy === 'vintages' ? body.compareBy : null,
+      vintages: body.vintages ? JSON.stringify(body.vintages) : null,
+    });
+    await trx('boards').where('id', boardId).update({ updated_at: new Date() });
+    return toPanel(await trx('board_panels').where('id', id).first());
+  });
+}
+
+async function panelOf(db: Db | Knex.Transaction, boardId: number, panelId: number) {
+  const row = await db('board_panels').where({ id: panelId, board_id: boardId }).first();
+  if (!row) throw notFound('The panel');
+  return row;
+}
+
+export async function updatePanel(db: Db, user: PublicUser, boardId: number, panelId: number, body: Partial<PanelBody> & { compareBy?: string | null; vintages?: number[] | null }) {
+  await ownBoard(db, user, boardId);
+  const row = await panelOf(db, boardId, panelId);
+  if (body.studyIds) await checkStudies(db, body.studyIds);
+  const ids = body.studyIds ?? JSON.parse(row.study_ids);
+  const compareBy = body.compareBy === undefined ? row.compare_by : body.compareBy;
+  if (ids.length > 1 && !compareBy) throw conflict('compare_by_required', 'Say what several studies are compared across (methods or series).');
+  const change: Record<string, unknown> = { updated_at: new Date() };
+  if (body.title !== undefined) change.title = body.title;
+  if (body.notes !== undefined) change.notes = body.notes;
+  if (body.width !== undefined) change.width = body.width;
+  if (body.height !== undefined) change.height = body.height;
+  if (body.studyIds !== undefined) change.study_ids = JSON.stringify(body.studyIds);
+  if (body.compareBy !== undefined) change.compare_by = body.compareBy;
+  if (body.vintages !== undefined) change.vintages = body.vintages ? JSON.stringify(body.vintages) : null;
+  change.kind = ids.length > 1 || compareBy === 'vintages' ? 'compare' : 'study';
+  await db('board_panels').where('id', panelId).update(change);
+  await db('boards').where('id', boardId).update({ updated_at: new Date() });
+  return toPanel(await db('board_panels').where('id', panelId).first());
+}
+
+export async function deletePanel(db: Db, user: PublicUser, boardId: number, panelId: number) {
+  await ownBoard(db, user, boardId);
+  await panelOf(db, boardId, panelId);
+  const [{ n }] = await db('exhibits').where('panel_id', panelId).whereIn('status', ['draft', 'in_review', 'returned']).count({ n: '*' });
+  if (Number(n) > 0) throw conflict('panel_in_use', 'An exhibit not yet published is drafted from this panel.');
+  await db('board_panels').where('id', panelId).delete();
+}
+
+export async function reorderPanels(db: Db, user: PublicUser, boardId: number, panelIds: number[]) {
+  await db.transaction(async (trx) => {
+    await ownBoard(trx, user, boardId);
+    const existing = (await trx('board_panels').where('board_id', boardId).forUpdate().select('id')).map((r) => r.id).sort();
+    if (JSON.stringify([...panelIds].sort()) !== JSON.stringify(existing)) throw conflict('panels_changed', 'Send every panel of the board exactly once, in the new order.');
+    for (let i = 0; i < panelIds.length; i++) await trx('board_panels').where('id', panelIds[i]).update({ position: i });
+    await trx('boards').where('id', boardId).update({ updated_at: new Date() });
+  });
+  return getBoard(db, user, boardId);
+}
+
+// ------------------------------------------------------------------ panel data
+
+export interface PanelLine {
+  label: string;
+  studyId: number;
+  periods: string[];
+  values: (number | null)[];
+  vintage: number;
+  methodLine: string;
+}
+
+export interface PanelData {
+  panelId: number;
+  kind: 'study' | 'compare';
+  compareBy: Panel['compareBy'];
+  lines: PanelLine[];
+  /** The single study's full result (kind "study"). */
+  result?: StudyResult;
+  unit: string;
+  methodLines: string[];
+  vintageStamps: string[];
+  series: { id: number; code: string; title: string; unit: string; source: string }[];
+  studies: Study[];
+  /** For studies that follow "latest": the newest vintage and when it was loaded. */
+  freshness: { studyId: number; code: string; vintage: number; asOf: string; loadedAt: string; newSincePanel: boolean }[];
+}
+
+export async function panelData(db: Db, panel: Panel): Promise<PanelData> {
+  const studies = await Promise.all(panel.studyIds.map((id) => getStudy(db, id)));
+  const lines: PanelLine[] = [];
+  const results: StudyResult[] = [];
+  if (panel.compareBy === 'vintages') {
+    const s = studies[0];
+    for (const v of panel.vintages ?? []) {
+      const r = await computeSpec(db, { ...s, vintage: v });
+      results.push(r);
+      lines.push({ label: `vintage ${v} (${r.asOf})`, studyId: s.id, periods: r.periods, values: r.cycle, vintage: v, methodLine: r.methodLine });
+    }
+  } else {
+    for (const s of studies) {
+      const r = await computeSpec(db, s);
+      results.push(r);
+      const label = panel.compareBy === 'series' ? s.series.code : panel.compareBy === 'methods' ? r.methodLine.split(';')[0] : s.title;
+      lines.push({ label, studyId: s.id, periods: r.periods, values: r.cycle, vintage: r.vintage, methodLine: r.methodLine });
+    }
+  }
+  const freshness = [];
+  for (const s of studies) {
+    if (s.vintage !== 'latest' || panel.compareBy === 'vintages') continue;
+    const v = await db('vintages').where('series_id', s.seriesId).orderBy('number', 'desc').first();
+    if (v) {
+      freshness.push({
+        studyId: s.id,
+        code: s.series.code,
+        vintage: v.number,
+        asOf: new Date(v.as_of).toISOString().slice(0, 10),
+        loadedAt: iso(v.created_at),
+        newSincePanel: new Date(v.created_at).getTime() > new Date(panel.updatedAt).getTime(),
+      });
+    }
+  }
+  const seriesSeen = new Map<number, PanelData['series'][number]>();
+  for (const r of results) seriesSeen.set(r.series.id, { id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source });
+  return {
+    panelId: panel.id,
+    kind: panel.kind,
+    compareBy: panel.compareBy,
+    lines,
+    result: panel.kind === 'study' ? results[0] : undefined,
+    unit: results[0]?.unitOfCycle ?? '',
+    methodLines: [...new Set(results.map((r) => r.methodLine))],
+    vintageStamps: [...new Set(results.map((r) => `${r.series.code}: ${r.vintageStamp}`))],
+    series: [...seriesSeen.values()],
+    studies,
+    freshness,
+  };
+}
+
+export async function getPanel(db: Db, user: PublicUser, boardId: number, panelId: number) {
+  await getBoard(db, user, boardId);
+  return toPanel(await panelOf(db, boardId, panelId));
+}
+
+/** A panel found by id alone (for exhibits drafted from a panel), with its board's visibility checked. */
+export async function panelById(db: Db, user: PublicUser, panelId: number) {
+  const row = await db('board_panels').where('id', panelId).first();
+  if (!row) throw notFound('The panel');
+  await getBoard(db, user, row.board_id);
+  return toPanel(row);
+}
