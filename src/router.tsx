@@ -9,19 +9,25 @@ import { PeoplePage } from '@/features/people/PeoplePage';
 import { ProfilePage } from '@/features/profile/ProfilePage';
 import { HomePage } from '@/routes/HomePage';
 import { NotFoundPage } from '@/routes/NotFoundPage';
-import { PlaceholderPage } from '@/routes/PlaceholderPage';
 import { CataloguePage } from '@/features/catalogue/CataloguePage';
 import { EditSeriesPage, NewSeriesPage } from '@/features/catalogue/SeriesForm';
 import { LoadsPage } from '@/features/catalogue/LoadsPage';
 import { SeriesPage } from '@/features/catalogue/SeriesPage';
 import { StudiesPage } from '@/features/studies/StudiesPage';
 import { StudyPage } from '@/features/studies/StudyWorkspace';
+import { BoardPage } from '@/features/boards/BoardPage';
+import { BoardsPage } from '@/features/boards/BoardsPage';
+import { ExhibitPage } from '@/features/exhibits/ExhibitPage';
+import { ExhibitsPage, ReviewDeskPage } from '@/features/exhibits/ExhibitsPage';
+import { NewExhibitPage } from '@/features/exhibits/NewExhibitPage';
+import { PublicExhibitPage } from '@/features/exhibits/PublicExhibitPage';
 
 export const router = createBrowserRouter([
   { path: '/sign-in', element: <SignInPage /> },
   { path: '/forgot-password', element: <ForgotPasswordPage /> },
   { path: '/reset-password/:token', element: <ResetPasswordPage /> },
   { path: '/invite/:token', element: <AcceptInvitationPage /> },
+  { path: '/p/:slug', element: <PublicExhibitPage /> },
   {
     element: <Layout />,
     children: [
@@ -34,9 +40,12 @@ export const router = createBrowserRouter([
       { path: 'studies', element: <RequireRole roles={['economist', 'editor', 'admin']}><StudiesPage /></RequireRole> },
       { path: 'studies/new', element: <RequireRole roles={['economist']}><StudyPage /></RequireRole> },
       { path: 'studies/:id', element: <RequireRole roles={['economist', 'editor', 'admin']}><StudyPage /></RequireRole> },
-      { path: 'boards/*', element: <PlaceholderPage title="Boards" /> },
-      { path: 'exhibits/*', element: <PlaceholderPage title="Exhibits" /> },
-      { path: 'review/*', element: <RequireRole roles={['editor']}><PlaceholderPage title="Review desk" /></RequireRole> },
+      { path: 'boards', element: <BoardsPage /> },
+      { path: 'boards/:id', element: <BoardPage /> },
+      { path: 'exhibits', element: <ExhibitsPage /> },
+      { path: 'exhibits/new', element: <RequireRole roles={['economist']}><NewExhibitPage /></RequireRole> },
+      { path: 'exhibits/:id', element: <ExhibitPage /> },
+      { path: 'review', element: <RequireRole roles={['editor']}><ReviewDeskPage /></RequireRole> },
       { path: 'people', element: <RequireRole roles={['admin']}><PeoplePage /></RequireRole> },
       { path: 'people/mailbox', element: <RequireRole roles={['admin']}><MailboxPage /></RequireRole> },
       { path: 'profile', element: <ProfilePage /> },

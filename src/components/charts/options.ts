@@ -29,7 +29,8 @@ export function endOfSampleArea(periods: string[], values: Num[], k: number) {
     silent: true,
     itemStyle: { color: 'rgba(162,59,42,0.07)' },
     label: { show: true, position: 'insideTopRight', color: COLORS.alert, fontFamily: FONT, fontSize: 11, formatter: 'end of sample: will be revised' },
-    data: [[{ xAxis: periods[first] }, { xAxis: periods[last] }]],
+    // Category indices, not labels: exact on both bar and line charts.
+    data: [[{ xAxis: first }, { xAxis: last }]],
   };
 }
 
@@ -87,7 +88,7 @@ export function cycleChart(opts: { periods: string[]; cycle: Num[]; unit?: strin
     legend: { show: false },
     xAxis: { ...xAxis(opts.periods), boundaryGap: true },
     yAxis: yAxis(opts.unit, { scale: false }),
-    dataZoom: zoom(opts.periods.length),
+    // No zoom on bar charts: with a zoom, ECharts draws a mark area a band short of the last bar.
     series: [
       {
         name: 'cycle',

@@ -80,6 +80,11 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
               </>
             )}
             {study && hasRole(me.data, 'economist') && (
+              <Link className="btn" to={`/exhibits/new?studyId=${study.id}&title=${encodeURIComponent(study.title)}`}>
+                Draft an exhibit
+              </Link>
+            )}
+            {study && hasRole(me.data, 'economist') && (
               <button className="btn-quiet" onClick={() => action.mutate({ id: study.id, action: 'duplicate' }, { onSuccess: (s) => { if (s) navigate(`/studies/${s.id}`); } })}>
                 Duplicate
               </button>

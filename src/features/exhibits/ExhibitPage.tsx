@@ -1,0 +1,233 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useState } from 'react';
+import { useForm } from 'react-hook-form';
+import { Link, useNavigate, useParams } from 'react-router-dom';
+import { z } from 'zod';
+import { fmt } from '@/components/charts/echarts';
+import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
+import { MOVE_LABELS, STATE_LABELS, useDiff, useExhibit, useExhibitMutations, type Exhibit, type ExhibitState } from './api';
+import { ExhibitDownloads, ExhibitFigure } from './ExhibitFigure';
+
+export function StateBadge({ state }: { state: ExhibitState }) {
+  const tone: Record<ExhibitState, string> = {
+    draft: 'border-hairline-strong text-ink-soft',
+    in_review: 'border-above text-above',
+    returned: 'border-alert text-alert',
+    approved: 'border-trend text-trend',
+    published: 'border-ok bg-ok-light text-ok',
+    withdrawn: 'border-ink-faint text-ink-faint line-through',
+  };
+  return (
+    <span className={`tag ${tone[state]}`} data-testid="exhibit-state">
+      {STATE_LABELS[state]}
+    </span>
+  );
+}
+
+const textSchema = z.object({
+  title: z.string().trim().min(1, 'Give it a title.').max(200),
+  subtitle: z.string().max(300).optional(),
+  units: z.string().max(120).optional(),
+  sourceLine: z.string().max(300).optional(),
+  notes: z.string().max(5000).optional(),
+  chartKind: z.enum(['cycle', 'trend']),
+});
+
+function TextForm({ exhibit }: { exhibit: Exhibit }) {
+  const { update } = useExhibitMutations(exhibit.id);
+  const form = useForm<z.infer<typeof textSchema>>({
+    resolver: zodResolver(textSchema),
+    defaultValues: { title: exhibit.title, subtitle: exhibit.subtitle ?? '', units: exhibit.units ?? '', sourceLine: exhibit.sourceLine ?? '', notes: exhibit.notes ?? '', chartKind: exhibit.chartKind },
+  });
+  return (
+    <form noValidate className="card space-y-3 p-4" aria-label="Exhibit text" onSubmit={form.handleSubmit((v) => update.mutate(v, { onSuccess: (e) => form.reset({ title: e.title, subtitle: e.subtitle ?? '', units: e.units ?? '', sourceLine: e.sourceLine ?? '', notes: e.notes ?? '', chartKind: e.chartKind }) }))}>
+      <h2 className="font-heading text-base font-bold">Text of the exhibit</h2>
+      <Field label="Title" htmlFor="ex-title" error={form.formState.errors.title?.message}>
+        <input id="ex-title" className="field" {...form.register('title')} />
+      </Field>
+      <Field label="Subtitle" htmlFor="ex-subtitle">
+        <input id="ex-subtitle" className="field" {...form.register('subtitle')} />
+      </Field>
+      <div className="grid grid-cols-2 gap-2">
+        <Field label="Units" htmlFor="ex-units">
+          <input id="ex-units" className="field" {...form.register('units')} />
+        </Field>
+        <Field label="Chart" htmlFor="ex-kind">
+          <select id="ex-kind" className="field" disabled={exhibit.live?.chartKind === 'compare'} {...form.register('chartKind')}>
+            <option value="cycle">the cycle (gap)</option>
+            <option value="trend">the series and its trend</option>
+          </select>
+        </Field>
+      </div>
+      <Field label="Source line" htmlFor="ex-source">
+        <input id="ex-source" className="field" {...form.register('sourceLine')} />
+      </Field>
+      <Field label="Notes" htmlFor="ex-notes">
+        <textarea id="ex-notes" rows={3} className="field" {...form.register('notes')} />
+      </Field>
+      <p className="text-xs text-ink-faint">The method line and the vintage stamp are written by Tidegauge from the data.</p>
+      <ErrorNote error={update.error} />
+      <button className="btn" disabled={update.isPending || !form.formState.isDirty}>
+        {form.formState.isDirty ? 'Save the text' : 'Text saved'}
+      </button>
+    </form>
+  );
+}
+
+function Moves({ exhibit }: { exhibit: Exhibit }) {
+  const { move } = useExhibitMutations(exhibit.id);
+  const [comment, setComment] = useState('');
+  if (!exhibit.moves.length) return null;
+  const needsComment = exhibit.moves.some((m) => m.comment === 'required');
+  return (
+    <div className="card space-y-3 p-4" aria-label="Moves">
+      <h2 className="font-heading text-base font-bold">Next step</h2>
+      {(needsComment || exhibit.moves.some((m) => m.to !== 'in_review')) && (
+        <Field label={exhibit.moves.some((m) => m.to === 'withdrawn') ? 'Reason (required to withdraw)' : 'Comment (required to return)'} htmlFor="move-comment">
+          <textarea id="move-comment" rows={3} className="field" value={comment} onChange={(e) => setComment(e.target.value)} />
+        </Field>
+      )}
+      <div className="flex flex-wrap gap-2">
+        {exhibit.moves.map((m) => (
+          <button
+            key={m.to}
+            className={m.to === 'returned' || m.to === 'withdrawn' ? 'btn-danger' : 'btn'}
+            disabled={move.isPending || (m.comment === 'required' && !comment.trim())}
+            onClick={() => move.mutate({ to: m.to, comment: comment.trim() || undefined }, { onSuccess: () => setComment('') })}
+          >
+            {MOVE_LABELS[m.to]}
+          </button>
+        ))}
+      </div>
+      {exhibit.moves.some((m) => m.to === 'in_review') && <p className="text-xs text-ink-faint">Submitting freezes the data, vintages, method and parameters as they are now.</p>}
+      <ErrorNote error={move.error} />
+    </div>
+  );
+}
+
+function History({ exhibit }: { exhibit: Exhibit }) {
+  return (
+    <ol className="space-y-2" aria-label="History" data-testid="exhibit-history">
+      {exhibit.events.map((e) => (
+        <li key={e.id} className="border-l-2 border-hairline-strong pl-3 text-sm">
+          <span className="font-semibold">{e.actor?.name ?? 'someone'}</span> {e.from ? <>moved it to <strong>{STATE_LABELS[e.to]}</strong></> : 'drafted it'}
+          {e.revision ? <span className="text-ink-faint"> (revision {e.revision})</span> : null}
+          <span className="block text-xs text-ink-faint">{formatDate(e.at, true)}</span>
+          {e.comment && <blockquote className="mt-1 whitespace-pre-wrap rounded bg-paper-deep px-2 py-1 text-sm">{e.comment}</blockquote>}
+        </li>
+      ))}
+    </ol>
+  );
+}
+
+function ReviewPanel({ exhibit }: { exhibit: Exhibit }) {
+  const diff = useDiff(exhibit.id, exhibit.revision > 0);
+  if (!diff.data) return diff.isPending ? <Spinner /> : <ErrorNote error={diff.error} />;
+  const d = diff.data.diff;
+  return (
+    <section className="space-y-3" aria-label="What changed" data-testid="review-diff">
+      <h2 className="font-heading text-lg font-bold">{d.from ? `What changed since revision ${d.from}` : 'First submission'}</h2>
+      {!d.from && <p className="text-sm text-ink-soft">This is the first revision submitted, so there is nothing earlier to compare with.</p>}
+      {d.from && (
+        <ul className="list-disc space-y-1 pl-5 text-sm">
+          {d.text.map((x) => (
+            <li key={x.field}>
+              <strong>{x.field}</strong>: “{x.before ?? '—'}” → “{x.after ?? '—'}”
+            </li>
+          ))}
+          {d.studies.map((x, i) => (
+            <li key={i}>
+              <strong>{x.what}</strong> of study {x.id}: {JSON.stringify(x.before)} → {JSON.stringify(x.after)}
+            </li>
+          ))}
+          {d.data.map((x) => (
+            <li key={x.line}>
+              data, {x.line}: {x.changedPeriods} period{x.changedPeriods === 1 ? '' : 's'} changed{x.newPeriods ? `, ${x.newPeriods} new` : ''}
+              {x.maxAbsChange !== null && <> (largest change {fmt(x.maxAbsChange, 3)})</>}
+            </li>
+          ))}
+          {!d.text.length && !d.studies.length && d.data.every((x) => !x.changedPeriods && !x.newPeriods) && <li>Nothing changed.</li>}
+        </ul>
+      )}
+      {diff.data.previous && (
+        <div className="grid gap-3 xl:grid-cols-2">
+          <div>
+            <p className="label">Revision {d.from} (reviewed before)</p>
+            <ExhibitFigure snapshot={diff.data.previous} />
+          </div>
+          <div>
+            <p className="label">Revision {d.to} (now)</p>
+            <ExhibitFigure snapshot={diff.data.current} />
+          </div>
+        </div>
+      )}
+    </section>
+  );
+}
+
+export function ExhibitPage() {
+  const id = Number(useParams().id);
+  const ex = useExhibit(id);
+  const { remove } = useExhibitMutations(id);
+  const navigate = useNavigate();
+  if (ex.isPending) return <Spinner />;
+  if (ex.error) return <ErrorNote error={ex.error} />;
+  const e = ex.data;
+  const shown = e.editable ? e.live : (e.snapshot ?? e.live);
+  const reviewing = e.status === 'in_review' && e.moves.some((m) => m.to === 'approved');
+  const lastReturn = [...e.events].reverse().find((ev) => ev.to === 'returned');
+  return (
+    <>
+      <PageHeader
+        kicker={<Link to="/exhibits" className="hover:underline">Exhibits</Link>}
+        title={e.title}
+        actions={
+          e.status === 'draft' && e.editable && (
+            <button className="btn-danger" onClick={() => confirm('Delete this draft?') && remove.mutate(undefined, { onSuccess: () => navigate('/exhibits') })}>
+              Delete the draft
+            </button>
+          )
+        }
+      >
+        <span className="flex flex-wrap items-center gap-2">
+          <StateBadge state={e.status} /> by {e.author.name} · revision {e.revision}
+          {e.studyId && (
+            <Link to={`/studies/${e.studyId}`} className="text-trend underline">
+              study
+            </Link>
+          )}
+        </span>
+      </PageHeader>
+      {e.status === 'withdrawn' && (
+        <p role="alert" className="mb-4 rounded border border-alert bg-alert-light px-3 py-2 text-sm text-alert">
+          Withdrawn: {[...e.events].reverse().find((ev) => ev.to === 'withdrawn')?.comment}
+        </p>
+      )}
+      {e.status === 'returned' && lastReturn?.comment && e.editable && (
+        <p className="mb-4 rounded border border-alert/40 bg-alert-light px-3 py-2 text-sm">
+          Returned by {lastReturn.actor?.name}: “{lastReturn.comment}”
+        </p>
+      )}
+      <div className="grid gap-6 xl:grid-cols-[1fr_22rem]">
+        <div className="min-w-0 space-y-4">
+          {shown ? <ExhibitFigure snapshot={shown} draft={!e.snapshot || e.editable} /> : <ErrorNote error={new Error('The study or panel this exhibit came from is gone.')} />}
+          {shown && <ExhibitDownloads snapshot={shown} dataUrl={`/exhibits/${e.id}/data`} name={`exhibit-${e.id}-r${e.revision}`} />}
+          {e.publicUrl && (
+            <p className="text-sm">
+              Public link: <a className="text-trend underline" href={e.publicUrl}>{e.publicUrl}</a>
+            </p>
+          )}
+          {reviewing && <ReviewPanel exhibit={e} />}
+        </div>
+        <aside className="space-y-4">
+          <Moves exhibit={e} />
+          {e.editable && <TextForm exhibit={e} />}
+          <div className="card p-4">
+            <h2 className="mb-2 font-heading text-base font-bold">History</h2>
+            <History exhibit={e} />
+          </div>
+        </aside>
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,48 @@
+import { zodResolver } from '@hookform/resolvers/zod';
+import { useForm } from 'react-hook-form';
+import { useNavigate, useSearchParams } from 'react-router-dom';
+import { z } from 'zod';
+import { ErrorNote, Field, PageHeader } from '@/components/ui';
+import { useExhibitMutations } from './api';
+
+const schema = z.object({ title: z.string().trim().min(1, 'Give it a title.').max(200), subtitle: z.string().max(300).optional(), notes: z.string().max(5000).optional(), chartKind: z.enum(['cycle', 'trend']) });
+
+/** Draft an exhibit from a study (?studyId=) or a board panel (?panelId=). */
+export function NewExhibitPage() {
+  const [params] = useSearchParams();
+  const studyId = Number(params.get('studyId')) || undefined;
+  const panelId = Number(params.get('panelId')) || undefined;
+  const { create } = useExhibitMutations();
+  const navigate = useNavigate();
+  const form = useForm<z.infer<typeof schema>>({ resolver: zodResolver(schema), defaultValues: { title: params.get('title') ?? '', subtitle: '', notes: '', chartKind: 'cycle' } });
+  return (
+    <>
+      <PageHeader title="Draft an exhibit" kicker="Exhibits">
+        The units, source line, method line and vintage stamp are filled in from the {studyId ? 'study' : 'panel'}; you can adjust the text before submitting it.
+      </PageHeader>
+      <form noValidate className="card max-w-2xl space-y-3 p-4" onSubmit={form.handleSubmit((v) => create.mutate({ ...v, studyId, panelId }, { onSuccess: (e) => navigate(`/exhibits/${e.id}`, { replace: true }) }))}>
+        <Field label="Title" htmlFor="nx-title" error={form.formState.errors.title?.message}>
+          <input id="nx-title" className="field" autoFocus {...form.register('title')} />
+        </Field>
+        <Field label="Subtitle" htmlFor="nx-subtitle">
+          <input id="nx-subtitle" className="field" {...form.register('subtitle')} />
+        </Field>
+        {studyId && (
+          <Field label="Chart" htmlFor="nx-kind">
+            <select id="nx-kind" className="field" {...form.register('chartKind')}>
+              <option value="cycle">the cycle (gap)</option>
+              <option value="trend">the series and its trend</option>
+            </select>
+          </Field>
+        )}
+        <Field label="Notes" htmlFor="nx-notes">
+          <textarea id="nx-notes" rows={3} className="field" {...form.register('notes')} />
+        </Field>
+        <ErrorNote error={create.error} />
+        <button className="btn" disabled={create.isPending || (!studyId && !panelId)}>
+          Draft the exhibit
+        </button>
+      </form>
+    </>
+  );
+}

@@ -1,0 +1,115 @@
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api } from '@/lib/api';
+
+export type ExhibitState = 'draft' | 'in_review' | 'returned' | 'approved' | 'published' | 'withdrawn';
+
+export interface Snapshot {
+  schema: 1;
+  kind: 'study' | 'panel';
+  chartKind: 'cycle' | 'trend' | 'compare';
+  text: { title: string; subtitle: string | null; units: string | null; sourceLine: string | null; notes: string | null };
+  series: { id: number; code: string; title: string; unit: string; source: string }[];
+  lines: { label: string; role: 'input' | 'trend' | 'cycle'; periods: string[]; values: (number | null)[] }[];
+  studies: { id: number; title: string; method: string; params: Record<string, unknown>; transform: string; vintage: number; asOf: string; vintageChecksum: string; methodLine: string }[];
+  turningPoints?: { period: string; type: 'peak' | 'trough' }[];
+  endOfSamplePeriods: number;
+  methodLine: string;
+  vintageStamp: string;
+  caution: string;
+  software: { name: string; version: string };
+  frozenAt: string | null;
+}
+
+export interface ExhibitEvent {
+  id: number;
+  at: string;
+  actor: { id: number; name: string } | null;
+  from: ExhibitState | null;
+  to: ExhibitState;
+  comment: string | null;
+  revision: number | null;
+}
+
+export interface ExhibitSummary {
+  id: number;
+  title: string;
+  subtitle: string | null;
+  units: string | null;
+  sourceLine: string | null;
+  notes: string | null;
+  chartKind: 'cycle' | 'trend';
+  status: ExhibitState;
+  revision: number;
+  studyId: number | null;
+  panelId: number | null;
+  author: { id: number; name: string };
+  submittedAt: string | null;
+  publishedAt: string | null;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface Exhibit extends ExhibitSummary {
+  snapshot: Snapshot | null;
+  snapshotChecksum: string | null;
+  live: Snapshot | null;
+  events: ExhibitEvent[];
+  moves: { to: ExhibitState; comment: 'required' | 'optional' }[];
+  editable: boolean;
+  publicUrl: string | null;
+}
+
+export interface DiffResult {
+  previous: Snapshot | null;
+  current: Snapshot;
+  diff: {
+    from: number | null;
+    to: number;
+    text: { field: string; before: string | null; after: string | null }[];
+    studies: { id: number; what: string; before: unknown; after: unknown }[];
+    data: { line: string; changedPeriods: number; newPeriods: number; maxAbsChange: number | null }[];
+  };
+}
+
+export const STATE_LABELS: Record<ExhibitState, string> = {
+  draft: 'draft',
+  in_review: 'in review',
+  returned: 'returned',
+  approved: 'approved',
+  published: 'published',
+  withdrawn: 'withdrawn',
+};
+
+export const MOVE_LABELS: Record<ExhibitState, string> = {
+  in_review: 'Submit for review',
+  returned: 'Return to the author',
+  approved: 'Approve',
+  published: 'Publish',
+  withdrawn: 'Withdraw',
+  draft: '',
+};
+
+export const useExhibits = (filter: { status?: string; mine?: boolean }) =>
+  useQuery({
+    queryKey: ['exhibits', filter],
+    queryFn: () => api<{ items: ExhibitSummary[] }>(`/exhibits?${new URLSearchParams({ ...(filter.status ? { status: filter.status } : {}), ...(filter.mine ? { mine: '1' } : {}) })}`).then((r) => r.items),
+  });
+export const useExhibit = (id: number) => useQuery({ queryKey: ['exhibit', id], queryFn: () => api<Exhibit>(`/exhibits/${id}`) });
+export const useDiff = (id: number, enabled: boolean) => useQuery({ queryKey: ['exhibit', id, 'diff'], queryFn: () => api<DiffResult>(`/exhibits/${id}/diff`), enabled });
+export const useReviewQueue = () => useQuery({ queryKey: ['review'], queryFn: () => api<{ items: (ExhibitSummary & { own: boolean })[] }>('/review').then((r) => r.items), refetchInterval: 30_000 });
+
+export function useExhibitMutations(id?: number) {
+  const qc = useQueryClient();
+  const done = (e: Exhibit) => {
+    qc.setQueryData(['exhibit', e.id], e);
+    qc.invalidateQueries({ queryKey: ['exhibits'] });
+    qc.invalidateQueries({ queryKey: ['review'] });
+    qc.invalidateQueries({ queryKey: ['exhibit', e.id, 'diff'] });
+  };
+  return {
+    create: useMutation({ mutationFn: (body: Record<string, unknown>) => api<Exhibit>('/exhibits', { method: 'POST', json: body }), onSuccess: done }),
+    update: useMutation({ mutationFn: (body: Record<string, unknown>) => api<Exhibit>(`/exhibits/${id}`, { method: 'PATCH', json: body }), onSuccess: done }),
+    move: useMutation({ mutationFn: (body: { to: ExhibitState; comment?: string }) => api<Exhibit>(`/exhibits/${id}/transitions`, { method: 'POST', json: body }), onSuccess: done }),
+    remove: useMutation({ mutationFn: () => api(`/exhibits/${id}`, { method: 'DELETE' }), onSuccess: () => qc.invalidateQueries({ queryKey: ['exhibits'] }) }),
+  };
+}
