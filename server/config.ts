@@ -2,6 +2,7 @@
  * Configuration: read from the environment once, validated with zod, in one place.
  * Every setting has a default that works on a developer's machine; production overrides them.
  */
+import os from 'node:os';
 import { z } from 'zod';
 
 const bool = z
@@ -85,7 +86,8 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     mail: { mode, smtpUrl: e.SMTP_URL, from: e.MAIL_FROM, fakePort: e.FAKE_SMTP_PORT },
     maxUploadBytes: Math.round(e.MAX_UPLOAD_MB * 1024 * 1024),
     maxJsonBytes: Math.round(e.MAX_JSON_MB * 1024 * 1024),
-    workerThreads: e.WORKER_THREADS ?? 2,
+    // Leave a core to the event loop: health checks and small requests stay fast during batches.
+    workerThreads: e.WORKER_THREADS ?? Math.max(1, os.availableParallelism() - 1),
     signIn: {
       maxPerAccount: e.SIGN_IN_MAX_FAILURES_PER_ACCOUNT,
       maxPerAddress: e.SIGN_IN_MAX_FAILURES_PER_ADDRESS,

@@ -102,3 +102,18 @@ export function isDbUnavailable(error: unknown): boolean {
     message,
   );
 }
+
+/**
+ * A raw query straight on a pooled mysql2 connection, skipping Knex's query builder and runner.
+ * For the few queries that run on every request (token and session lookups, observations);
+ * everything else uses Knex. Same pool, same reconnection and timeout behaviour.
+ */
+export async function fastQuery<T = Record<string, any>>(db: Db, sql: string, bindings: unknown[]): Promise<T[]> {
+  const client = db.client as unknown as { acquireConnection(): Promise<any>; releaseConnection(c: unknown): Promise<void> };
+  const conn = await client.acquireConnection();
+  try {
+    return await new Promise<T[]>((resolve, reject) => conn.query({ sql, values: bindings }, (err: Error | null, rows: T[]) => (err ? reject(err) : resolve(rows))));
+  } finally {
+    await client.releaseConnection(conn);
+  }
+}

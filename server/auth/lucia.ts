@@ -3,7 +3,7 @@
  * connection settings, and the same reconnection behaviour as every other query).
  */
 import { Lucia, TimeSpan, type Adapter, type DatabaseSession, type DatabaseUser } from 'lucia';
-import type { Db } from '../db.js';
+import { fastQuery, type Db } from '../db.js';
 import type { Role } from '../schemas/auth.js';
 
 export const SESSION_COOKIE = 'tg_session';
@@ -35,13 +35,13 @@ export class KnexSessionAdapter implements Adapter {
   constructor(private readonly db: Db) {}
 
   async getSessionAndUser(sessionId: string): Promise<[DatabaseSession | null, DatabaseUser | null]> {
-    const row = await this.db('sessions as s')
-      .join('users as u', 'u.id', 's.user_id')
-      .leftJoin('user_roles as r', 'r.user_id', 'u.id')
-      .where('s.id', sessionId)
-      .andWhere('u.status', 'active')
-      .groupBy('s.id', 's.user_id', 's.expires_at', 's.ip', 's.user_agent', 'u.email', 'u.name')
-      .first('s.id', 's.user_id', 's.expires_at', 's.ip', 's.user_agent', 'u.email', 'u.name', this.db.raw('GROUP_CONCAT(r.role) AS roles'));
+    // Runs on every request made with a cookie: one raw query.
+    const [row] = await fastQuery(
+      this.db,
+      `SELECT s.id, s.user_id, s.expires_at, s.ip, s.user_agent, u.email, u.name, (SELECT GROUP_CONCAT(r.role) FROM user_roles r WHERE r.user_id = u.id) AS roles
+         FROM sessions s JOIN users u ON u.id = s.user_id WHERE s.id = ? AND u.status = 'active' LIMIT 1`,
+      [sessionId],
+    );
     if (!row) return [null, null];
     return [
       { id: row.id, userId: row.user_id, expiresAt: new Date(row.expires_at), attributes: { ip: row.ip, user_agent: row.user_agent } },

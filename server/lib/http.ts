@@ -3,7 +3,7 @@
  * route (never a check inside a handler), and the same table feeds the OpenAPI document and the
  * role-matrix test.
  */
-import type { NextFunction, Request, RequestHandler, Response, Router } from 'express';
+import express, { type NextFunction, type Request, type RequestHandler, type Response, type Router } from 'express';
 import { z } from 'zod';
 import { HttpError, forbidden, unauthorized } from './errors.js';
 import type { AuthContext, Role } from '../schemas/auth.js';
@@ -82,7 +82,24 @@ export function parseOr400<T>(schema: z.ZodType<T>, value: unknown, what: string
  * (for the OpenAPI document and the role-matrix test).
  */
 export function mount(router: Router, prefix: string, specs: RouteSpec[], table: RegisteredRoute[]) {
+  // Routes are grouped by their first path segment into sub-routers, so a request is matched
+  // against its own resource's few routes rather than against every route of the API.
+  const groups = new Map<string, Router>();
   for (const spec of specs) {
+    const segment = spec.path.split('/')[1] ?? '';
+    let sub = groups.get(segment);
+    if (!sub) {
+      sub = express.Router({ mergeParams: true });
+      groups.set(segment, sub);
+      router.use(`/${segment}`, sub);
+    }
+    const rest = spec.path.slice(segment.length + 1) || '/';
+    register(sub, rest, spec, prefix, table);
+  }
+}
+
+function register(router: Router, path: string, spec: RouteSpec, prefix: string, table: RegisteredRoute[]) {
+  {
     const { handler: _handler, ...rest } = spec;
     table.push({ ...rest, fullPath: prefix + spec.path });
     const handler = async (req: Request, res: Response, next: NextFunction) => {
@@ -104,7 +121,7 @@ export function mount(router: Router, prefix: string, specs: RouteSpec[], table:
         next(error);
       }
     };
-    router[spec.method](spec.path, guard(spec.access), ...(spec.before ?? []), handler);
+    router[spec.method](path, guard(spec.access), ...(spec.before ?? []), handler);
   }
 }
 

@@ -2,7 +2,7 @@ import type { AppDeps } from '../app.js';
 import { lambdaPresets, cutoffPeriod, defaultParams, gainCurve, lambdaForCutoff, METHOD_NAMES, METHODS, TWO_SIDED, type Frequency, type Method } from '../analysis/index.js';
 import type { RouteSpec } from '../lib/http.js';
 import { batchRequestSchema, decomposeRequestSchema, frequencySchema, methodSchema } from '../schemas/decompose.js';
-import { decomposeOne, resolveItems, runBatch, validateBatchSize } from '../services/decompose.js';
+import { decomposeOne, preferStoredPath, resolveItems, runBatch, runStoredBatch, validateBatchSize, type RawItem } from '../services/decompose.js';
 import { paramSchemas } from '../schemas/decompose.js';
 import { z } from 'zod';
 import { badRequest } from '../lib/errors.js';
@@ -29,9 +29,10 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
       raw: true,
       handler: async ({ body, req, res }) => {
         validateBatchSize(body.items as never);
+        const raw = body.items as never as RawItem[];
         const run = async (progress?: (done: number, total: number) => void) => {
-          const items = await resolveItems(deps.db, body.items as never);
-          return runBatch(items, body.output, deps.pool, progress);
+          if (preferStoredPath(raw, deps.pool)) return runStoredBatch(raw, body.output, deps.pool, deps.config.databaseUrl, progress);
+          return runBatch(await resolveItems(deps.db, raw), body.output, deps.pool, progress);
         };
         if (wantsStream(req)) {
           await streamNdjson(res, async (send) => {

@@ -60,6 +60,7 @@ export function buildOpenApi(routes: RegisteredRoute[], config: Config) {
 }
 
 export function openapiRoutes(getRoutes: () => RegisteredRoute[], config: Config): RouteSpec[] {
+  let doc: ReturnType<typeof buildOpenApi> | undefined;
   return [
     {
       method: 'get',
@@ -67,7 +68,7 @@ export function openapiRoutes(getRoutes: () => RegisteredRoute[], config: Config
       access: 'public',
       summary: 'This API as an OpenAPI 3.1 document',
       tags: ['system'],
-      handler: () => buildOpenApi(getRoutes(), config),
+      handler: () => (doc ??= buildOpenApi(getRoutes(), config)),
     },
   ];
 }

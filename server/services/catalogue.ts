@@ -4,7 +4,6 @@
  */
 import type { Knex } from 'knex';
 import type { Frequency } from '../analysis/frequency.js';
-import { formatPeriod, periodIndex } from '../analysis/periods.js';
 import type { Db } from '../db.js';
 import { badRequest, conflict, notFound, unprocessable, type FileProblem } from '../lib/errors.js';
 import { sha256 } from '../lib/secrets.js';
@@ -41,48 +40,16 @@ export interface VintageInfo {
   loadId: number | null;
 }
 
-const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
-const dateOnly = (d: Date | string) => (d instanceof Date ? d.toISOString().slice(0, 10) : String(d).slice(0, 10));
-
-function toSeries(r: Record<string, any>): SeriesRow {
-  return {
-    id: r.id,
-    code: r.code,
-    title: r.title,
-    frequency: r.frequency,
-    unit: r.unit,
-    seasonalAdjustment: r.seasonal_adjustment,
-    source: r.source,
-    notes: r.notes,
-    sdmxKey: r.sdmx_key,
-    createdAt: iso(r.created_at)!,
-    updatedAt: iso(r.updated_at)!,
-  };
-}
-
-function toVintage(r: Record<string, any>): VintageInfo {
-  return {
-    number: r.number,
-    asOf: dateOnly(r.as_of),
-    note: r.note,
-    rowCount: r.row_count,
-    checksum: r.checksum,
-    firstPeriod: r.first_period,
-    lastPeriod: r.last_period,
-    createdAt: iso(r.created_at)!,
-    createdBy: r.created_by ? { id: r.created_by, name: r.creator_name ?? '' } : null,
-    loadId: r.load_id ?? null,
-  };
-}
+import { contiguous, dateOnly, iso, manySeriesValues, toSeries, toVintage, type SeriesValues } from './values.js';
+export { manySeriesValues, type SeriesValues };
 
 // ------------------------------------------------------------------ series
 
 export async function listSeries(db: Db, filter: { q?: string; frequency?: string; unit?: string } = {}) {
-  const latest = db('vintages').select('series_id').max({ number: 'number' }).groupBy('series_id').as('lv');
+  // The latest vintage through the (series_id, number) unique index: no scan of all vintages.
   const q = db('series as s')
-    .leftJoin(latest, 'lv.series_id', 's.id')
     .leftJoin('vintages as v', function () {
-      this.on('v.series_id', '=', 's.id').andOn('v.number', '=', 'lv.number');
+      this.on('v.series_id', '=', 's.id').andOn('v.number', '=', db.raw('(SELECT MAX(v2.number) FROM vintages v2 WHERE v2.series_id = s.id)'));
     })
     .select('s.*', 'v.number as v_number', 'v.as_of as v_as_of', 'v.created_at as v_created_at', 'v.last_period as v_last_period', 'v.row_count as v_rows')
     .orderBy('s.code');
@@ -208,14 +175,7 @@ export async function observationsOf(db: Db | Knex.Transaction, vintageId: numbe
 export async function seriesValues(db: Db, seriesId: number, which: number | 'latest') {
   const series = await getSeries(db, seriesId);
   const vintage = await resolveVintage(db, seriesId, which);
-  const obs = await observationsOf(db, vintage.id);
-  if (obs.periods.length === 0) return { series, vintage, start: null as string | null, periods: [], values: [] as (number | null)[] };
-  const first = periodIndex(obs.periods[0], series.frequency)!;
-  const last = periodIndex(obs.periods[obs.periods.length - 1], series.frequency)!;
-  const values = new Array<number | null>(last - first + 1).fill(null);
-  obs.periods.forEach((p, i) => (values[periodIndex(p, series.frequency)! - first] = obs.values[i]));
-  const periods = values.map((_, i) => formatPeriod(first + i, series.frequency));
-  return { series, vintage, start: obs.periods[0], periods, values };
+  return { series, vintage, ...contiguous(await observationsOf(db, vintage.id), series.frequency) };
 }
 
 export function checksumOf(periods: string[], values: (number | null)[]): string {

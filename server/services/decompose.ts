@@ -3,11 +3,9 @@
  * vintage). Large batches go to worker threads; progress can stream as NDJSON.
  */
 import { AnalysisError, decompose, toJsonResponse, type DecomposeJson, type DecomposeRequest } from '../analysis/index.js';
-import type { Db } from '../db.js';
 import { badRequest, HttpError } from '../lib/errors.js';
 import type { AnalysisPool } from '../workers/pool.js';
 import { runBatchChunk, type BatchItem } from '../workers/decompose-task.js';
-import { seriesValues } from './catalogue.js';
 
 export function toHttp(error: unknown): never {
   if (error instanceof AnalysisError) throw new HttpError(400, error.code, error.message, error.details);
@@ -22,44 +20,9 @@ export function decomposeOne(request: DecomposeRequest): DecomposeJson {
   }
 }
 
-type RawItem = { id?: string; seriesId?: number; vintage?: number | 'latest'; frequency?: string; start?: string; values?: unknown[]; transform?: string; method: string; params?: Record<string, unknown> };
-
-/** Turns stored-series items into value arrays (one query per distinct series and vintage). */
-export async function resolveItems(db: Db, items: RawItem[]): Promise<(BatchItem | { id?: string; error: { code: string; message: string } })[]> {
-  const cache = new Map<string, Awaited<ReturnType<typeof seriesValues>> | HttpError>();
-  const out: (BatchItem | { id?: string; error: { code: string; message: string } })[] = [];
-  for (const item of items) {
-    if (item.seriesId === undefined) {
-      out.push(item as unknown as BatchItem);
-      continue;
-    }
-    const key = `${item.seriesId}@${item.vintage ?? 'latest'}`;
-    if (!cache.has(key)) {
-      try {
-        cache.set(key, await seriesValues(db, item.seriesId, item.vintage ?? 'latest'));
-      } catch (error) {
-        if (error instanceof HttpError && error.status < 500) cache.set(key, error);
-        else throw error;
-      }
-    }
-    const data = cache.get(key)!;
-    if (data instanceof HttpError) {
-      out.push({ id: item.id, error: { code: data.code, message: data.message } });
-      continue;
-    }
-    out.push({
-      id: item.id,
-      frequency: data.series.frequency,
-      start: data.start ?? undefined,
-      values: data.values,
-      transform: item.transform as BatchItem['transform'],
-      method: item.method as BatchItem['method'],
-      params: item.params,
-      echo: { seriesId: item.seriesId, vintage: data.vintage.number },
-    });
-  }
-  return out;
-}
+export type { RawItem } from './values.js';
+import { resolveItems, type RawItem } from './values.js';
+export { resolveItems };
 
 const INLINE_MAX_VALUES = 200_000;
 const CHUNK_VALUES = 250_000;
@@ -117,4 +80,30 @@ export function validateBatchSize(items: RawItem[]) {
   let values = 0;
   for (const i of items) values += i.values?.length ?? 0;
   if (values > 20_000_000) throw badRequest('batch_too_large', `This batch carries ${values.toLocaleString('en-US')} values; send at most 20 000 000 per request.`);
+}
+
+const STORED_CHUNK = 500;
+
+/**
+ * A large batch of stored series: each worker reads its chunk's observations from the database
+ * itself, so the main thread neither parses millions of rows nor copies them to the workers.
+ */
+export async function runStoredBatch(items: RawItem[], output: 'full' | 'summary', pool: AnalysisPool, databaseUrl: string, onProgress?: (done: number, total: number) => void) {
+  const chunks: RawItem[][] = [];
+  for (let i = 0; i < items.length; i += STORED_CHUNK) chunks.push(items.slice(i, i + STORED_CHUNK));
+  let done = 0;
+  const parts = await Promise.all(
+    chunks.map(async (chunk) => {
+      const r = await pool.run({ kind: 'stored', databaseUrl, items: chunk, output });
+      done += chunk.length;
+      onProgress?.(done, items.length);
+      return r;
+    }),
+  );
+  return parts.flat();
+}
+
+/** Stored items only, many of them, and worker threads available: the worker path pays. */
+export function preferStoredPath(items: RawItem[], pool: AnalysisPool | undefined): pool is AnalysisPool {
+  return !!pool && items.length > 200 && items.every((i) => i.seriesId !== undefined);
 }

@@ -3,6 +3,8 @@
  * answer each as a ready JSON string, so the main thread only concatenates text.
  */
 import { AnalysisError, cycleStatistics, decompose, toJsonResponse, type DecomposeRequest } from '../analysis/index.js';
+import { createDb, type Db } from '../db.js';
+import { resolveItems, type RawItem } from '../services/values.js';
 
 export interface BatchItem extends DecomposeRequest {
   id?: string;
@@ -45,6 +47,27 @@ export function runBatchChunk(task: BatchTask): string[] {
 /** NaN and infinities become null, as everywhere in the API. */
 export function jsonSafe<T>(value: T): T {
   return JSON.parse(JSON.stringify(value, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)));
+}
+
+/** A chunk of stored-series items: the worker reads the observations itself, off the main thread. */
+export interface StoredTask {
+  kind: 'stored';
+  databaseUrl: string;
+  items: RawItem[];
+  output: 'full' | 'summary';
+}
+
+let workerDb: Db | null = null;
+
+export async function runStoredChunk(task: StoredTask): Promise<string[]> {
+  workerDb ??= createDb(task.databaseUrl, 2);
+  const resolved = await resolveItems(workerDb, task.items);
+  const work = resolved.map((item, index) => ({ item, index }));
+  const results: string[] = new Array(resolved.length);
+  const ready = work.filter((w) => !('error' in w.item));
+  runBatchChunk({ items: ready.map((w) => w.item as BatchItem), output: task.output }).forEach((r, k) => (results[ready[k].index] = r));
+  for (const w of work) if ('error' in w.item) results[w.index] = JSON.stringify(w.item);
+  return results;
 }
 
 export default runBatchChunk;

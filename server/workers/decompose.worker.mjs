@@ -3,8 +3,8 @@
 import { register } from 'tsx/esm/api';
 
 register();
-const { runBatchChunk } = await import('./decompose-task.ts');
+const { runBatchChunk, runStoredChunk } = await import('./decompose-task.ts');
 
 export default function task(input) {
-  return runBatchChunk(input);
+  return input.kind === 'stored' ? runStoredChunk(input) : runBatchChunk(input);
 }

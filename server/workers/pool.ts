@@ -5,10 +5,10 @@
 import os from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { Piscina } from 'piscina';
-import type { BatchTask } from './decompose-task.js';
+import type { BatchTask, StoredTask } from './decompose-task.js';
 
 export interface AnalysisPool {
-  run(task: BatchTask): Promise<string[]>;
+  run(task: BatchTask | StoredTask): Promise<string[]>;
   close(): Promise<void>;
   threads: number;
 }

@@ -113,6 +113,17 @@ describe('POST /api/v1/decompose/batch', () => {
     }
   });
 
+  it('reads large batches of stored series on the worker threads, with the same answers', async () => {
+    const ids = (await t.db('series').select('id')).map((r) => r.id as number);
+    const items = Array.from({ length: 260 }, (_, k) => ({ id: `s${k}`, seriesId: ids[k % ids.length], method: 'hp' }));
+    const res = await agent.post('/api/v1/decompose/batch').send({ items }).expect(200);
+    expect(res.body.items).toHaveLength(260);
+    const one = await agent.post('/api/v1/decompose/batch').send({ items: [items[7]] }).expect(200);
+    expect(res.body.items[7]).toEqual(one.body.items[0]);
+    const missing = await agent.post('/api/v1/decompose/batch').send({ items: [...items, { id: 'gone', seriesId: 999999, method: 'hp' }] }).expect(200);
+    expect(missing.body.items[260].error.code).toBe('not_found');
+  });
+
   it('streams progress as NDJSON and answers summaries', async () => {
     const items = Array.from({ length: 1200 }, (_, k) => ({ frequency: 'Q', values: Array.from({ length: 200 }, (_, i) => Math.cos(i / 9) + k), method: 'hp' }));
     const res = await agent

@@ -1,0 +1,124 @@
+// `npm run loadtest`: the product against its own database, driven from this (second) process
+// with autocannon on loopback, bounded in time. Prints requests per second, p50/p99 latency and
+// errors per scenario and connection count, with /api/v1/health as the reference, and checks the
+// targets of the reliability issue. Results are also written to .data/loadtest-results.json.
+import { spawn } from 'node:child_process';
+import fs from 'node:fs';
+import net from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import { ensureNodeModules, log, provideDatabase, root, runTs, tsxArgs } from './lib/setup.mjs';
+
+ensureNodeModules();
+const { default: autocannon } = await import('autocannon');
+const db = await provideDatabase('tidegauge_loadtest');
+const stateFile = path.join(root, '.data', 'loadtest-state.json');
+log('seeding 10 000 series × 200 quarters…');
+runTs('scripts/loadtest/seed.ts', [stateFile], { DATABASE_URL: db.url });
+const { token, ids } = JSON.parse(fs.readFileSync(stateFile, 'utf8'));
+
+const port = await new Promise((resolve) => {
+  const s = net.createServer().listen(0, '127.0.0.1', () => {
+    const p = s.address().port;
+    s.close(() => resolve(p));
+  });
+});
+const base = `http://127.0.0.1:${port}`;
+const server = spawn(process.execPath, tsxArgs('server/main.ts'), {
+  cwd: root,
+  stdio: ['ignore', 'inherit', 'inherit'],
+  env: { ...process.env, DATABASE_URL: db.url, PORT: String(port), NODE_ENV: 'production', MAIL_MODE: 'off', LOG_LEVEL: 'warn', DB_POOL_MAX: '40' },
+});
+const stop = async () => {
+  if (server.exitCode === null) {
+    server.kill('SIGTERM');
+    await new Promise((r) => server.once('exit', r));
+  }
+  if (db.owned) await db.stop();
+};
+process.on('SIGINT', async () => {
+  await stop();
+  process.exit(130);
+});
+for (let i = 0; i < 100; i++) {
+  try {
+    if ((await fetch(`${base}/api/v1/health`)).ok) break;
+  } catch {
+    /* not yet */
+  }
+  await new Promise((r) => setTimeout(r, 200));
+}
+
+const headers = { Authorization: `Bearer ${token}`, 'Content-Type': 'application/json' };
+const pick = () => ids[Math.floor(Math.random() * ids.length)];
+const DURATION = Number(process.env.LOADTEST_SECONDS || 10);
+const one = ids[0];
+
+const scenarios = {
+  health: { method: 'GET', path: '/api/v1/health' },
+  'catalogue search': { method: 'GET', setup: () => ({ path: `/api/v1/series?q=LT_0${String(Math.floor(Math.random() * 100)).padStart(2, '0')}` }) },
+  observations: { method: 'GET', setup: () => ({ path: `/api/v1/series/${pick()}/vintages/latest/observations` }) },
+  'decompose stored (200 q)': { method: 'POST', path: '/api/v1/decompose/batch', body: JSON.stringify({ items: [{ seriesId: one, method: 'hp' }] }) },
+  'decompose, any of 10 000': { method: 'POST', setup: () => ({ path: '/api/v1/decompose/batch', body: JSON.stringify({ items: [{ seriesId: pick(), method: 'hp' }] }) }) },
+  'batch of 50 stored': { method: 'POST', setup: () => ({ path: '/api/v1/decompose/batch', body: JSON.stringify({ output: 'summary', items: Array.from({ length: 50 }, () => ({ seriesId: pick(), method: 'hp' })) }) }) },
+};
+
+function options(name, connections, duration) {
+  const s = scenarios[name];
+  return {
+    url: base,
+    connections,
+    duration,
+    headers,
+    timeout: 20,
+    // Connections are opened and the server warmed before measuring.
+    warmup: { connections, duration: 2 },
+    requests: [{ method: s.method, path: s.path ?? '/', body: s.body, setupRequest: (req) => (s.setup ? { ...req, ...s.setup() } : req) }],
+  };
+}
+
+const run = (name, connections, duration = DURATION) => autocannon(options(name, connections, duration));
+
+const rows = [];
+const fmt = (r, name, c, note = '') => {
+  const row = { scenario: name, connections: c, rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, errors: r.errors + r.timeouts + r.non2xx, note };
+  rows.push(row);
+  console.log(`${name.padEnd(28)} ${String(c).padStart(4)}  ${row.rps.toFixed(0).padStart(7)} req/s  p50 ${String(row.p50).padStart(5)} ms  p99 ${String(row.p99).padStart(5)} ms  errors ${row.errors}${note ? '  ' + note : ''}`);
+  return row;
+};
+
+console.log(`\nTidegauge load test — ${new Date().toISOString()} — ${os.cpus().length} cores (${os.cpus()[0]?.model ?? ''}), node ${process.version}, ${DURATION} s per run\n`);
+for (const c of [8, 32, 128]) {
+  for (const name of Object.keys(scenarios)) fmt(await run(name, c), name, c);
+}
+
+// Health at 128 connections while a batch of 10 000 stored series runs.
+log('batch of 10 000 series, with health checks at 128 connections meanwhile…');
+await new Promise((r) => setTimeout(r, 1000));
+const t0 = Date.now() + 2500;
+const batch = new Promise((r) => setTimeout(r, 2500)).then(() => fetch(`${base}/api/v1/decompose/batch`, { method: 'POST', headers, body: JSON.stringify({ output: 'summary', items: ids.map((id) => ({ seriesId: id, method: 'hp' })) }) }).then(async (r) => {
+  const body = await r.json();
+  return { status: r.status, items: body.items?.length ?? 0, errors: (body.items ?? []).filter((i) => i.error).length, seconds: (Date.now() - t0) / 1000 };
+}));
+// One continuous health run at 128 connections that stops when the batch is answered.
+const healthRun = autocannon(options('health', 128, 120));
+const healthDone = new Promise((resolve) => healthRun.on('done', resolve));
+const b = await batch;
+healthRun.stop();
+const during = await healthDone;
+const worstP99 = during.latency.p99;
+fmt(during, 'health during 10 000 batch', 128, `(batch: ${b.status}, ${b.items} items, ${b.errors} item errors, ${b.seconds.toFixed(1)} s)`);
+
+const find = (s, c) => rows.find((r) => r.scenario === s && r.connections === c);
+const targets = [
+  ['decompose stored at 32 connections: p99 < 50 ms', find('decompose stored (200 q)', 32).p99 < 50],
+  ['decompose stored at 32 connections: zero errors', find('decompose stored (200 q)', 32).errors === 0],
+  ['every scenario at 128 connections: zero errors', rows.filter((r) => r.connections === 128).every((r) => r.errors === 0)],
+  ['health during the 10 000-series batch: p99 < 200 ms', worstP99 < 200],
+  ['the 10 000-series batch answered in full', b.status === 200 && b.items === 10000 && b.errors === 0],
+];
+console.log('');
+for (const [what, ok] of targets) console.log(`${ok ? 'met   ' : 'MISSED'}  ${what}`);
+fs.writeFileSync(path.join(root, '.data', 'loadtest-results.json'), JSON.stringify({ at: new Date().toISOString(), cores: os.cpus().length, rows, batch: b, targets }, null, 2));
+await stop();
+process.exit(targets.every(([, ok]) => ok) ? 0 : 1);
