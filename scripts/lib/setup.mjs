@@ -203,7 +203,13 @@ export async function startPrivateMariadb({ dataDir, port, quiet = false }) {
     const until = Date.now() + 30_000;
     while (exited === null && Date.now() < until) await sleep(100);
   };
-  return { port, socket, owned: true, stop };
+  /** An abrupt failure (for the fault tests): SIGKILL, no clean shutdown. */
+  const kill = async () => {
+    child.kill('SIGKILL');
+    const until = Date.now() + 10_000;
+    while (exited === null && Date.now() < until) await sleep(50);
+  };
+  return { port, socket, owned: true, stop, kill, pid: child.pid };
 }
 
 /** Creates the database and the application's user on a private server (as root over the socket). */

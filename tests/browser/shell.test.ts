@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startServer, type TestServer } from '../helpers/app.js';
 import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser.js';
+import { signedIn } from '../helpers/session.js';
 
 let t: TestServer;
 let browser: BrowserSession;
@@ -31,6 +32,21 @@ describe('the application shell in Chromium', () => {
     const { page } = browser;
     await page.goto(t.url + '/no/such/page');
     await expect.poll(() => page.locator('h1').innerText()).toMatch(/does not exist/);
+  });
+
+  it('renders titles and notes as text, never as markup', async () => {
+    const { page } = browser;
+    const steward = await signedIn(t, 'steward@demo.test');
+    const nasty = `<img src=x onerror="window.__pwned=1"><b>bold</b>`;
+    const s = (await steward.post('/api/v1/series').send({ code: 'MARKUP', title: nasty, frequency: 'Q', unit: 'index', seasonalAdjustment: 'sa', source: nasty, notes: `<script>window.__pwned=2</script>` }).expect(201)).body;
+    await page.goto(`${t.url}/catalogue`);
+    await page.getByTestId('catalogue-table').getByText(nasty).waitFor();
+    await page.goto(`${t.url}/catalogue/${s.id}`);
+    await page.getByText('<script>window.__pwned=2</script>').waitFor();
+    expect(await page.locator('h1').innerText()).toBe(nasty);
+    expect(await page.locator('img[src="x"]').count()).toBe(0);
+    expect(await page.locator('main b').count()).toBe(0);
+    expect(await page.evaluate(() => (window as unknown as { __pwned?: number }).__pwned)).toBeUndefined();
   });
 
   it('runs under the Content-Security-Policy without violations', async () => {
