@@ -17,7 +17,7 @@ export const DEMO_PEOPLE: { email: string; name: string; roles: Role[] }[] = [
 ];
 
 /** Seeds the demo workspace. Returns false when the database already holds people. */
-export async function seedDemo(db: Db, { onlyIfEmpty }: { onlyIfEmpty: boolean }): Promise<boolean> {
+export async function seedDemo(db: Db, { onlyIfEmpty, work = true }: { onlyIfEmpty: boolean; work?: boolean }): Promise<boolean> {
   if (onlyIfEmpty) {
     const [{ n }] = await db('users').count({ n: '*' });
     if (Number(n) > 0) return false;
@@ -33,5 +33,10 @@ export async function seedDemo(db: Db, { onlyIfEmpty }: { onlyIfEmpty: boolean }
   });
   const { seedDemoCatalogue } = await import('./demo-catalogue.js');
   await seedDemoCatalogue(db, ids);
+  if (work) {
+    const { seedDemoWork } = await import('./demo-work.js');
+    const { loadConfig } = await import('../server/config.js');
+    await seedDemoWork(db, ids, loadConfig({ ...process.env, MAIL_MODE: 'off' }));
+  }
   return true;
 }

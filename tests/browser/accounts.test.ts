@@ -18,7 +18,7 @@ describe('inviting a new person, end to end', () => {
   it('admin invites; the mail is read on the Mailbox page; the invitee accepts, signs in and sees only what a reader may', async () => {
     const { page } = browser;
     await signInAs(page, t.url, 'admin@demo.test');
-    await page.getByRole('link', { name: 'People' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'People' }).click();
     await page.getByRole('tab', { name: 'Invitations' }).click();
     await page.getByLabel('E-mail').fill('reader.new@demo.test');
     // Roles: reader only (viewer is ticked by default).

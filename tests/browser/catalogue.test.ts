@@ -31,7 +31,7 @@ describe('a steward loads a revised release', () => {
     fs.writeFileSync(file, lines.join('\n') + '\n');
 
     await signInAs(page, t.url, 'steward@demo.test');
-    await page.getByRole('link', { name: 'Catalogue' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Catalogue' }).click();
     await page.getByRole('link', { name: 'EST_UNEMP' }).click();
     await page.getByRole('tab', { name: 'Load a release' }).click();
     await page.getByLabel('File (CSV, XLSX or SDMX-CSV)').setInputFiles(file);

@@ -24,7 +24,7 @@ describe('from a board to a published exhibit', () => {
   it('economist composes a board and drafts an exhibit; editor returns, then approves and publishes; a reader downloads it', async () => {
     const { page } = browser;
     await signInAs(page, t.url, 'economist@demo.test');
-    await page.getByRole('link', { name: 'Boards' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Boards' }).click();
     await page.locator('#board-title').fill('Quarterly gap pack');
     await page.getByRole('button', { name: 'Compose the board' }).click();
     await page.waitForURL(/\/boards\/\d+$/);
@@ -57,7 +57,7 @@ describe('from a board to a published exhibit', () => {
     await signOut(page);
 
     await signInAs(page, t.url, 'editor@demo.test');
-    await page.getByRole('link', { name: 'Review desk' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Review desk' }).click();
     await page.getByTestId('review-queue').getByRole('link', { name: 'Two estimates of the Estuary output gap' }).click();
     await page.getByLabel('Comment (required to return)').fill('Drop "first draft" from the subtitle.');
     await page.getByRole('button', { name: 'Return to the author' }).click();
@@ -88,7 +88,7 @@ describe('from a board to a published exhibit', () => {
     await signOut(page);
 
     await signInAs(page, t.url, 'viewer@demo.test');
-    await page.getByRole('link', { name: 'Exhibits' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Exhibits' }).click();
     await page.getByTestId('exhibits-table').getByRole('link', { name: 'Two estimates of the Estuary output gap' }).click();
     await page.getByTestId('exhibit-chart').locator('canvas').first().waitFor();
     const stamp = await page.getByTestId('exhibit-stamp').innerText();

@@ -21,7 +21,7 @@ describe('the economist’s workspace', () => {
   it('changes λ, switches to Hamilton, saves, reopens and runs the revision analysis', async () => {
     const { page } = browser;
     await signInAs(page, t.url, 'economist@demo.test');
-    await page.getByRole('link', { name: 'Catalogue' }).click();
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Catalogue' }).click();
     await page.getByRole('link', { name: 'EST_GDP_REAL' }).click();
     await page.getByRole('link', { name: 'Decompose in a study' }).click();
     await page.getByTestId('cycle-chart').locator('canvas').first().waitFor();

@@ -96,7 +96,7 @@ export const useExhibits = (filter: { status?: string; mine?: boolean }) =>
   });
 export const useExhibit = (id: number) => useQuery({ queryKey: ['exhibit', id], queryFn: () => api<Exhibit>(`/exhibits/${id}`) });
 export const useDiff = (id: number, enabled: boolean) => useQuery({ queryKey: ['exhibit', id, 'diff'], queryFn: () => api<DiffResult>(`/exhibits/${id}/diff`), enabled });
-export const useReviewQueue = () => useQuery({ queryKey: ['review'], queryFn: () => api<{ items: (ExhibitSummary & { own: boolean })[] }>('/review').then((r) => r.items), refetchInterval: 30_000 });
+export const useReviewQueue = (enabled = true) => useQuery({ queryKey: ['review'], enabled, queryFn: () => api<{ items: (ExhibitSummary & { own: boolean })[] }>('/review').then((r) => r.items), refetchInterval: 30_000 });
 
 export function useExhibitMutations(id?: number) {
   const qc = useQueryClient();
