@@ -41,9 +41,12 @@ async function close(signal: string) {
   if (closing) return;
   closing = true;
   logger.info(`${signal}: closing`);
-  server.close();
+  // Stop taking connections, let the requests in flight finish (at most 5 s), then close the pool.
+  const drained = new Promise<void>((resolve) => server.close(() => resolve()));
   server.closeIdleConnections?.();
-  setTimeout(() => process.exit(0), 5000).unref();
+  setTimeout(() => process.exit(0), 8000).unref();
+  await Promise.race([drained, new Promise((r) => setTimeout(r, 5000))]);
+  server.closeAllConnections?.();
   await Promise.allSettled([app.locals.shutdown(), db.destroy(), mailbox?.close()]);
   process.exit(0);
 }

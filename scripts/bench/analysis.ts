@@ -121,7 +121,7 @@ if (mem.status === 0) {
   rows.push({ what: 'peak memory, HP n = 1e6', ours: `${m.aboveInputMb.toFixed(0)} MB above input`, reference: `input ${m.inputMb.toFixed(0)} MB`, ratio: '', target: '< 200 MB', ok: m.aboveInputMb < 200 });
 } else console.log(mem.stderr);
 
-const widths = [26, 22, 44, 8, 26];
+const widths = [34, 22, 44, 8, 26];
 const line = (cells: string[]) => cells.map((c, i) => c.padEnd(widths[i])).join(' ');
 console.log(line(['measure', 'Tidegauge (median)', 'reference (median, same run)', 'ratio', 'target']));
 console.log('-'.repeat(widths.reduce((a, b) => a + b + 1, 0)));

@@ -82,25 +82,24 @@ export function validateBatchSize(items: RawItem[]) {
   if (values > 20_000_000) throw badRequest('batch_too_large', `This batch carries ${values.toLocaleString('en-US')} values; send at most 20 000 000 per request.`);
 }
 
-const STORED_CHUNK = 500;
+const STORED_CHUNK = 250;
 
 /**
  * A large batch of stored series: each worker reads its chunk's observations from the database
  * itself, so the main thread neither parses millions of rows nor copies them to the workers.
  */
 export async function runStoredBatch(items: RawItem[], output: 'full' | 'summary', pool: AnalysisPool, databaseUrl: string, onProgress?: (done: number, total: number) => void) {
-  const chunks: RawItem[][] = [];
-  for (let i = 0; i < items.length; i += STORED_CHUNK) chunks.push(items.slice(i, i + STORED_CHUNK));
-  let done = 0;
-  const parts = await Promise.all(
-    chunks.map(async (chunk) => {
-      const r = await pool.run({ kind: 'stored', databaseUrl, items: chunk, output });
-      done += chunk.length;
-      onProgress?.(done, items.length);
-      return r;
-    }),
-  );
-  return parts.flat();
+  const results: string[] = [];
+  for (let i = 0; i < items.length; i += STORED_CHUNK) {
+    const chunk = items.slice(i, i + STORED_CHUNK);
+    const started = performance.now();
+    results.push(...(await pool.run({ kind: 'stored', databaseUrl, items: chunk, output })));
+    onProgress?.(Math.min(items.length, i + STORED_CHUNK), items.length);
+    // Background pace: rest a third of the time the chunk took, so that the database and the
+    // request thread keep room for interactive requests while a big batch runs.
+    if (i + STORED_CHUNK < items.length) await new Promise((r) => setTimeout(r, (performance.now() - started) / 3));
+  }
+  return results;
 }
 
 /** Stored items only, many of them, and worker threads available: the worker path pays. */

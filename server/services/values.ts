@@ -74,20 +74,23 @@ export function contiguous(obs: { periods: string[]; values: (number | null)[] }
  * across server instances because a stored vintage never changes; bounded by the number of values.
  */
 class ObservationCache {
-  private map = new Map<number, ReturnType<typeof contiguous>>();
+  // Compact entries: the first period and the values in a Float64Array (NaN for missing). Typed
+  // arrays live outside the garbage-collected heap, so a full cache costs the collector nothing.
+  private map = new Map<number, { start: string | null; frequency: Frequency; values: Float64Array }>();
   private size = 0;
   constructor(private readonly maxValues: number) {}
-  get(id: number) {
+  get(id: number): ReturnType<typeof contiguous> | undefined {
     const v = this.map.get(id);
-    if (v) {
-      this.map.delete(id);
-      this.map.set(id, v);
-    }
-    return v;
-  }
-  set(id: number, v: ReturnType<typeof contiguous>) {
-    if (v.values.length > this.maxValues / 10 || this.map.has(id)) return;
+    if (!v) return undefined;
+    this.map.delete(id);
     this.map.set(id, v);
+    const values = Array.from(v.values, (x) => (Number.isNaN(x) ? null : x));
+    const i0 = v.start === null ? 0 : periodIndex(v.start, v.frequency)!;
+    return { start: v.start, values, periods: values.map((_, i) => formatPeriod(i0 + i, v.frequency)) };
+  }
+  set(id: number, v: ReturnType<typeof contiguous>, frequency: Frequency) {
+    if (v.values.length > this.maxValues / 10 || this.map.has(id)) return;
+    this.map.set(id, { start: v.start, frequency, values: Float64Array.from(v.values, (x) => (x === null ? NaN : x)) });
     this.size += v.values.length;
     while (this.size > this.maxValues) {
       const [oldest, data] = this.map.entries().next().value!;
@@ -161,7 +164,7 @@ export async function manySeriesValues(db: Db, refs: { seriesId: number; vintage
     for (const id of chunk) {
       const list = wanted.get(id)!;
       const data = contiguous(obs.get(id)!, list[0].series.frequency);
-      observationCache.set(id, data);
+      observationCache.set(id, data, list[0].series.frequency);
       for (const w of list) out.set(w.key, { series: w.series, vintage: { ...toVintage(w.vintage), id }, ...data });
     }
   }

@@ -24,6 +24,9 @@ export function createAnalysisPool(threads: number): AnalysisPool {
       idleTimeout: 30_000,
       // The workers' own memory limit: a runaway request ends its worker, not the server.
       resourceLimits: { maxOldGenerationSizeMb: 1024 },
+      // Batch threads run at a lower priority (Linux nice +10, through @napi-rs/nice), so the
+      // thread that answers requests keeps the CPU when both want it.
+      niceIncrement: 10,
     }));
   return {
     threads: n,
