@@ -204,6 +204,14 @@ def main():
         tau = exact_hp(y_ex, lam)
         exact.append({'source': 'exact rational Gaussian elimination (fractions)', 'lambda': float(lam), 'y': [float(v) for v in y_ex],
                       'trend': [float(v) for v in tau], 'cycle': [float(a - b) for a, b in zip(y_ex, tau)]})
+    # With gaps (weight zero at missing values), exactly: (W + λDᵀD)τ = Wy.
+    gaps = []
+    for lam in (Fraction(1600), Fraction(10**12)):
+        w = [0 if i in (7, 8, 19) else 1 for i in range(len(y_ex))]
+        tau = exact_hp(y_ex, lam, w)
+        gaps.append({'source': 'exact rational Gaussian elimination (fractions), weights 0 at the gaps', 'lambda': float(lam),
+                     'y': [None if w[i] == 0 else float(v) for i, v in enumerate(y_ex)], 'trend': [float(v) for v in tau]})
+    out['exactHpGaps'] = gaps
     # The small worked example of the documentation.
     exact.append({'source': 'exact rational Gaussian elimination (fractions)', 'lambda': 1.0, 'y': [1.0, 2.0, 4.0, 7.0, 11.0],
                   'trend': [float(v) for v in exact_hp([Fraction(v) for v in (1, 2, 4, 7, 11)], Fraction(1))],
@@ -217,17 +225,18 @@ def main():
     print('wrote', path)
 
 
-def exact_hp(y, lam):
+def exact_hp(y, lam, w=None):
     n = len(y)
+    w = w or [1] * n
     A = [[Fraction(0)] * n for _ in range(n)]
     for i in range(n):
-        A[i][i] = Fraction(1)
+        A[i][i] = Fraction(w[i])
     for r in range(n - 2):
         s = [1, -2, 1]
         for a in range(3):
             for b in range(3):
                 A[r + a][r + b] += lam * s[a] * s[b]
-    rhs = list(y)
+    rhs = [y[i] * w[i] for i in range(n)]
     for col in range(n):
         piv = A[col][col]
         for row in range(col + 1, min(n, col + 3)):

@@ -29,7 +29,8 @@ import { hamiltonFilter } from './hamilton.js';
 import { l1Trend } from './l1trend.js';
 import { periodIndex, periodRange } from './periods.js';
 import { applyTransform, type Transform } from './transform.js';
-import { hpCycleInto, hpOneSidedCycle, hpOneSidedTrendWeighted, whittakerCycle, whittakerTrendWeighted } from './whittaker.js';
+import { hpCycleInto, hpOneSidedCycle, hpOneSidedTrendWeighted, whittakerCycle, whittakerTrendFilled, whittakerTrendWeighted } from './whittaker.js';
+import { SingularSystemError } from './banded.js';
 import { paramSchemas, MAX_VALUES } from '../schemas/decompose.js';
 
 export type { Transform };
@@ -199,9 +200,14 @@ export function decompose(request: DecomposeRequest): DecomposeResult {
         whittakerCycle(core, lambda, order, cycleCore);
         for (let i = 0; i < m; i++) trendCore[i] = core[i] - cycleCore[i];
       } else {
-        const w = new Float64Array(m);
-        for (let i = 0; i < m; i++) w[i] = Number.isNaN(core[i]) ? 0 : 1;
-        trendCore.set(whittakerTrendWeighted(core, w, lambda, order));
+        // Gaps: the filled-gap iteration (accurate at large λ), else the direct weighted solve.
+        const filled = lambda >= 100 ? whittakerTrendFilled(core, lambda, order) : null;
+        if (filled) trendCore.set(filled);
+        else {
+          const w = new Float64Array(m);
+          for (let i = 0; i < m; i++) w[i] = Number.isNaN(core[i]) ? 0 : 1;
+          trendCore.set(solveOrRefuse(() => whittakerTrendWeighted(core, w, lambda, order)));
+        }
         for (let i = 0; i < m; i++) cycleCore[i] = core[i] - trendCore[i];
       }
       diagnostics.cutoffPeriod = cutoffPeriod(lambda, order);
@@ -214,7 +220,7 @@ export function decompose(request: DecomposeRequest): DecomposeResult {
       } else {
         const w = new Float64Array(m);
         for (let i = 0; i < m; i++) w[i] = Number.isNaN(core[i]) ? 0 : 1;
-        trendCore.set(hpOneSidedTrendWeighted(core, w, lambda));
+        trendCore.set(solveOrRefuse(() => hpOneSidedTrendWeighted(core, w, lambda)));
         for (let i = 0; i < m; i++) cycleCore[i] = core[i] - trendCore[i];
       }
       diagnostics.cutoffPeriod = cutoffPeriod(lambda, 2);
@@ -282,6 +288,18 @@ export function decompose(request: DecomposeRequest): DecomposeResult {
 
   warnings.unshift(...cautions(method, frequency, params, gaps));
   return { method, params, transform, frequency, periods, input, trend, cycle, warnings, diagnostics };
+}
+
+/** A direct banded solve that cannot be factorized (λ far too large for the data) is a 400, not a crash. */
+function solveOrRefuse(solve: () => Float64Array): Float64Array {
+  try {
+    return solve();
+  } catch (error) {
+    if (error instanceof SingularSystemError) {
+      throw new AnalysisError('lambda_too_large', 'λ is too large for this series with gaps: the system cannot be solved accurately. Use a smaller λ, or fill the gaps.');
+    }
+    throw error;
+  }
 }
 
 function minimumLength(method: Method, params: Record<string, unknown>): { count: number; why?: string } {

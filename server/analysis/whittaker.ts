@@ -294,3 +294,46 @@ export function hpOneSidedTrendWeighted(y: ArrayLike<number>, weights: ArrayLike
   }
   return out;
 }
+
+/**
+ * Trend of a series with interior gaps, by filling the gaps with the current trend and smoothing
+ * the complete series again (the EM iteration for missing data) until the filled values stop
+ * moving. Each step is the well-conditioned cycle-form solve, so the answer stays accurate where
+ * the direct weighted system (W + λDᵀD) loses digits (large λ). The fixed point is exactly the
+ * solution of (W + λDᵀD)τ = Wy. The contraction factor is the smoother's weight on the missing
+ * points themselves, small unless λ is small; returns null when it has not converged, so the
+ * caller can fall back to the direct solve (well-conditioned exactly when λ is small).
+ */
+export function whittakerTrendFilled(y: ArrayLike<number>, lambda: number, order = 2, maxIterations = 2000): Float64Array | null {
+  const n = y.length;
+  const filled = Float64Array.from(y);
+  const missing: number[] = [];
+  for (let i = 0; i < n; i++) if (Number.isNaN(filled[i])) missing.push(i);
+  // Start from straight lines across each gap.
+  let scale = 0;
+  for (let i = 0; i < n; i++) if (!Number.isNaN(filled[i])) scale = Math.max(scale, Math.abs(filled[i]));
+  for (const i of missing) {
+    let a = i - 1;
+    while (a >= 0 && Number.isNaN(y[a])) a--;
+    let b = i + 1;
+    while (b < n && Number.isNaN(y[b])) b++;
+    filled[i] = a < 0 ? y[b] : b >= n ? y[a] : y[a] + ((y[b] - y[a]) * (i - a)) / (b - a);
+  }
+  const cycle = new Float64Array(n);
+  const tolerance = 1e-14 * Math.max(1, scale);
+  for (let it = 0; it < maxIterations; it++) {
+    whittakerCycle(filled, lambda, order, cycle);
+    let change = 0;
+    for (const i of missing) {
+      const t = filled[i] - cycle[i];
+      change = Math.max(change, Math.abs(t - filled[i]));
+      filled[i] = t;
+    }
+    if (change <= tolerance) {
+      whittakerCycle(filled, lambda, order, cycle);
+      for (let i = 0; i < n; i++) cycle[i] = filled[i] - cycle[i];
+      return cycle;
+    }
+  }
+  return null;
+}

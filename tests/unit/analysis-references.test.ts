@@ -51,6 +51,12 @@ describe('Hodrick–Prescott at extreme λ — against exact rational arithmetic
       if (c.cycle) expect(relativeError(r.cycle, c.cycle)).toBeLessThan(1e-8);
     });
   }
+  for (const c of R.exactHpGaps) {
+    it(`with gaps (weight zero), λ = ${c.lambda}`, () => {
+      const r = decompose({ frequency: 'Q', values: c.y, method: 'hp', params: { lambda: c.lambda } });
+      expect(relativeError(r.trend, c.trend)).toBeLessThan(1e-10);
+    });
+  }
   it('the documented worked example: y = [1,2,4,7,11], λ = 1 → [13/24, 9/4, 53/12, 29/4, 253/24]', () => {
     const r = decompose({ frequency: 'A', values: [1, 2, 4, 7, 11], method: 'hp', params: { lambda: 1 } });
     const exact = [13 / 24, 9 / 4, 53 / 12, 29 / 4, 253 / 24];
