@@ -97,39 +97,9 @@ function factorPenta(band: Float64Array, n: number): BandedFactor {
  */
 export function factorToeplitz(n: number, c: ArrayLike<number>): BandedFactor {
   const b = c.length - 1;
-  if (b === 2) return factorPentaToeplitz(n, c[0], c[1], c[2]);
   const band = new Float64Array(n * (b + 1));
   for (let i = 0; i < n; i++) for (let k = 0; k <= b; k++) band[i * (b + 1) + k] = c[k];
   return factorBanded(band, n, b);
-}
-
-function factorPentaToeplitz(n: number, c0: number, c1: number, c2: number): BandedFactor {
-  const d = new Float64Array(n);
-  const l = new Float64Array(n * 2);
-  let dm2 = 0;
-  let dm1 = 0;
-  let l1m1 = 0;
-  for (let i = 0; i < n; i++) {
-    let l2 = 0;
-    let l1 = 0;
-    let di = c0;
-    if (i >= 2) {
-      l2 = c2 / dm2;
-      l1 = (c1 - l2 * dm2 * l1m1) / dm1;
-      di -= l1 * l1 * dm1 + l2 * l2 * dm2;
-    } else if (i === 1) {
-      l1 = c1 / dm1;
-      di -= l1 * l1 * dm1;
-    }
-    if (!(di > 0)) throw new SingularSystemError(i);
-    d[i] = di;
-    l[i * 2] = l1;
-    l[i * 2 + 1] = l2;
-    dm2 = dm1;
-    dm1 = di;
-    l1m1 = l1;
-  }
-  return { n, b: 2, d, l };
 }
 
 /**

@@ -57,3 +57,17 @@ export async function toXlsx(table: ExportTable): Promise<Buffer> {
   }
   return Buffer.from(await wb.xlsx.writeBuffer());
 }
+
+/** Sends a table as a CSV or XLSX download named `name` (without the extension). */
+export async function sendTable(res: import('express').Response, table: ExportTable, name: string, format: 'csv' | 'xlsx') {
+  const safe = name.replace(/[^A-Za-z0-9_.-]/g, '_');
+  if (format === 'xlsx') {
+    res.setHeader('Content-Type', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet');
+    res.setHeader('Content-Disposition', `attachment; filename="${safe}.xlsx"`);
+    res.send(await toXlsx(table));
+  } else {
+    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    res.setHeader('Content-Disposition', `attachment; filename="${safe}.csv"`);
+    res.send(toCsv(table));
+  }
+}

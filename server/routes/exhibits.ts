@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import type { AppDeps } from '../app.js';
-import { toCsv, toXlsx } from '../importers/export.js';
+import { sendTable } from '../importers/export.js';
 import { idParam, type RouteSpec } from '../lib/http.js';
 import { createExhibitSchema, transitionSchema, updateExhibitSchema } from '../schemas/boards.js';
 import * as exhibits from '../services/exhibits.js';
@@ -17,17 +17,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
     raw: true,
     handler: async ({ params, query, auth, res }) => {
       const t = await exhibits.exhibitTable(deps, auth?.user ?? null, slug ? 0 : idParam(params.id, 'The exhibit'), slug ? z.string().max(64).parse(params.slug) : undefined);
-      const name = `exhibit-${t.exhibit.id}-r${t.exhibit.revision}`;
-      const table = { columns: t.columns, rows: t.rows, about: t.about, sheetName: 'Data' };
-      if (query.format === 'xlsx') {
-        res.setHeader('Content-Type', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet');
-        res.setHeader('Content-Disposition', `attachment; filename="${name}.xlsx"`);
-        res.send(await toXlsx(table));
-      } else {
-        res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-        res.setHeader('Content-Disposition', `attachment; filename="${name}.csv"`);
-        res.send(toCsv(table));
-      }
+      await sendTable(res, { columns: t.columns, rows: t.rows, about: t.about, sheetName: 'Data' }, `exhibit-${t.exhibit.id}-r${t.exhibit.revision}`, query.format);
     },
   });
   return [

@@ -4,7 +4,7 @@ import { idParam, type RouteSpec } from '../lib/http.js';
 import { streamNdjson, wantsStream } from '../lib/stream.js';
 import { compareSchema, createStudySchema, studySpecSchema, updateStudySchema } from '../schemas/studies.js';
 import * as studies from '../services/studies.js';
-import { toCsv, toXlsx, type ExportTable } from '../importers/export.js';
+import { sendTable, type ExportTable } from '../importers/export.js';
 
 const ECONOMIST = ['economist'] as const;
 
@@ -141,16 +141,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
             ['Caution', studies.CAUTION_LINE],
           ],
         };
-        const name = `study-${r.study.id}-${r.series.code}`.replace(/[^A-Za-z0-9_.-]/g, '_');
-        if (query.format === 'xlsx') {
-          res.setHeader('Content-Type', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet');
-          res.setHeader('Content-Disposition', `attachment; filename="${name}.xlsx"`);
-          res.send(await toXlsx(table));
-        } else {
-          res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-          res.setHeader('Content-Disposition', `attachment; filename="${name}.csv"`);
-          res.send(toCsv(table));
-        }
+        await sendTable(res, table, `study-${r.study.id}-${r.series.code}`, query.format);
       },
     },
   ];

@@ -58,3 +58,47 @@ export const transitionSchema = z.object({
   to: z.enum(EXHIBIT_STATES, { error: `"to" is one of ${EXHIBIT_STATES.join(', ')}.` }),
   comment: z.string().trim().max(5000, 'A comment has at most 5000 characters.').optional(),
 });
+
+/** What an exhibit freezes when it is submitted, and renders from afterwards (server and client). */
+export interface Snapshot {
+  schema: 1;
+  kind: 'study' | 'panel';
+  chartKind: 'cycle' | 'trend' | 'compare';
+  text: { title: string; subtitle: string | null; units: string | null; sourceLine: string | null; notes: string | null };
+  series: { id: number; code: string; title: string; unit: string; source: string }[];
+  lines: { label: string; role: 'input' | 'trend' | 'cycle'; periods: string[]; values: (number | null)[] }[];
+  studies: { id: number; title: string; method: string; params: Record<string, unknown>; transform: string; vintage: number; asOf: string; vintageChecksum: string; methodLine: string }[];
+  turningPoints?: { period: string; type: 'peak' | 'trough' }[];
+  endOfSamplePeriods: number;
+  methodLine: string;
+  vintageStamp: string;
+  caution: string;
+  software: { name: string; version: string };
+  frozenAt: string | null;
+}
+
+export interface Board {
+  id: number;
+  title: string;
+  description: string | null;
+  visibility: 'private' | 'team';
+  owner: { id: number; name: string };
+  createdAt: string;
+  updatedAt: string;
+  panelCount?: number;
+}
+
+export interface Panel {
+  id: number;
+  boardId: number;
+  position: number;
+  width: 1 | 2;
+  height: 's' | 'm' | 'l';
+  title: string;
+  notes: string | null;
+  kind: 'study' | 'compare';
+  studyIds: number[];
+  compareBy: 'methods' | 'series' | 'vintages' | null;
+  vintages: number[] | null;
+  updatedAt: string;
+}

@@ -42,3 +42,25 @@ export const loadFieldsSchema = z.object({
   format: z.enum(['csv', 'sdmx-csv', 'xlsx']).optional(),
   expectChecksum: z.string().regex(/^[0-9a-f]{64}$/).optional(),
 });
+
+/** Revisions between two vintages, as the API answers them. */
+export type RevisionStatus = 'revised' | 'new' | 'removed' | 'unchanged';
+
+export interface RevisionRow {
+  period: string;
+  from: number | null;
+  to: number | null;
+  revision: number | null;
+  percent: number | null;
+  status: RevisionStatus;
+}
+
+export interface RevisionSummary {
+  revised: number;
+  new: number;
+  removed: number;
+  unchanged: number;
+  meanRevision: number | null;
+  meanAbsoluteRevision: number | null;
+  maxAbsoluteRevision: number | null;
+}

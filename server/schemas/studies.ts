@@ -1,6 +1,7 @@
 /** Bodies of the Studies routes, shared with the study form. */
 import { z } from 'zod';
 import { methodSchema, transformSchema } from './decompose.js';
+import type { Method } from '../analysis/frequency.js';
 
 export const vintagePinSchema = z.union([z.number().int().positive(), z.literal('latest')], { error: 'The vintage is a number (1, 2, …) or "latest".' });
 
@@ -31,3 +32,19 @@ export const compareSchema = z.object({
   maxLag: z.number().int().min(0).max(24).default(8),
 });
 export type CompareBody = z.infer<typeof compareSchema>;
+
+/** A saved study as the API answers it. */
+export interface Study {
+  id: number;
+  title: string;
+  notes: string | null;
+  seriesId: number;
+  series: { code: string; title: string; frequency: 'A' | 'Q' | 'M'; unit: string };
+  vintage: number | 'latest';
+  transform: 'none' | 'log' | 'log100';
+  method: Method;
+  params: Record<string, unknown>;
+  owner: { id: number; name: string };
+  createdAt: string;
+  updatedAt: string;
+}

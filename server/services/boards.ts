@@ -7,34 +7,11 @@ import type { Knex } from 'knex';
 import type { Db } from '../db.js';
 import { conflict, forbidden, notFound } from '../lib/errors.js';
 import type { PublicUser } from '../schemas/auth.js';
-import type { PanelBody } from '../schemas/boards.js';
+import type { Board, Panel, PanelBody } from '../schemas/boards.js';
+export type { Board, Panel };
 import { computeSpec, getStudy, type Study, type StudyResult } from './studies.js';
 
-export interface Board {
-  id: number;
-  title: string;
-  description: string | null;
-  visibility: 'private' | 'team';
-  owner: { id: number; name: string };
-  createdAt: string;
-  updatedAt: string;
-  panelCount?: number;
-}
 
-export interface Panel {
-  id: number;
-  boardId: number;
-  position: number;
-  width: 1 | 2;
-  height: 's' | 'm' | 'l';
-  title: string;
-  notes: string | null;
-  kind: 'study' | 'compare';
-  studyIds: number[];
-  compareBy: 'methods' | 'series' | 'vintages' | null;
-  vintages: number[] | null;
-  updatedAt: string;
-}
 
 const iso = (d: Date | string) => new Date(d).toISOString();
 

@@ -20,10 +20,11 @@ import { randomToken, sha256 } from '../lib/secrets.js';
 import { version } from '../lib/version.js';
 import { composeMail, type Mailer } from '../mail/mailer.js';
 import type { PublicUser, Role } from '../schemas/auth.js';
-import type { CreateExhibitBody, ExhibitState } from '../schemas/boards.js';
+import type { CreateExhibitBody, ExhibitState, Snapshot } from '../schemas/boards.js';
+export type { Snapshot };
 import { audit } from './audit.js';
 import { panelById, panelData, type PanelData } from './boards.js';
-import { CAUTION_LINE, computeSpec, getStudy } from './studies.js';
+import { CAUTION_LINE, computeSpec, getStudy, type StudyResult } from './studies.js';
 import { getSettings } from './settings.js';
 
 export interface ExhibitDeps {
@@ -42,22 +43,6 @@ export const MOVES: Move[] = [
   { to: 'withdrawn', from: ['published'], by: 'editor', comment: 'required', verb: 'withdrew' },
 ];
 
-export interface Snapshot {
-  schema: 1;
-  kind: 'study' | 'panel';
-  chartKind: 'cycle' | 'trend' | 'compare';
-  text: { title: string; subtitle: string | null; units: string | null; sourceLine: string | null; notes: string | null };
-  series: { id: number; code: string; title: string; unit: string; source: string }[];
-  lines: { label: string; role: 'input' | 'trend' | 'cycle'; periods: string[]; values: (number | null)[] }[];
-  studies: { id: number; title: string; method: string; params: Record<string, unknown>; transform: string; vintage: number; asOf: string; vintageChecksum: string; methodLine: string }[];
-  turningPoints?: { period: string; type: 'peak' | 'trough' }[];
-  endOfSamplePeriods: number;
-  methodLine: string;
-  vintageStamp: string;
-  caution: string;
-  software: { name: string; version: string };
-  frozenAt: string | null;
-}
 
 const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
 
@@ -85,32 +70,31 @@ async function vintageChecksum(db: Db, seriesId: number, number: number) {
 
 /** The exhibit's content computed from the current data (a draft's live view, or the next snapshot). */
 export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string, any>, frozen: boolean): Promise<Snapshot> {
-  const text = { title: row.title, subtitle: row.subtitle, units: row.units, sourceLine: row.source_line, notes: row.notes };
-  const software = { name: 'Tidegauge', version };
+  const common = {
+    schema: 1 as const,
+    text: { title: row.title, subtitle: row.subtitle, units: row.units, sourceLine: row.source_line, notes: row.notes },
+    caution: CAUTION_LINE,
+    software: { name: 'Tidegauge', version },
+    frozenAt: frozen ? new Date().toISOString() : null,
+  };
+  // One study's decomposition: the series, its trend and its cycle.
+  const single = (kind: Snapshot['kind'], r: StudyResult, studies: Snapshot['studies'], series: Snapshot['series']): Snapshot => ({
+    ...common,
+    kind,
+    chartKind: row.chart_kind === 'trend' ? 'trend' : 'cycle',
+    series,
+    lines: (['input', 'trend', 'cycle'] as const).map((role) => ({ label: role, role, periods: r.periods, values: r[role] })),
+    studies,
+    turningPoints: r.turningPoints.map((t) => ({ period: t.period, type: t.type })),
+    endOfSamplePeriods: r.endOfSamplePeriods,
+    methodLine: r.methodLine,
+    vintageStamp: r.vintageStamp,
+  });
   if (row.study_id) {
     const s = await getStudy(db, row.study_id);
     const r = await computeSpec(db, s);
-    const chartKind = row.chart_kind === 'trend' ? 'trend' : 'cycle';
-    return {
-      schema: 1,
-      kind: 'study',
-      chartKind,
-      text,
-      series: [{ id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source }],
-      lines: [
-        { label: 'input', role: 'input', periods: r.periods, values: r.input },
-        { label: 'trend', role: 'trend', periods: r.periods, values: r.trend },
-        { label: 'cycle', role: 'cycle', periods: r.periods, values: r.cycle },
-      ],
-      studies: [{ id: s.id, title: s.title, method: r.method, params: r.params, transform: r.transform, vintage: r.vintage, asOf: r.asOf, vintageChecksum: await vintageChecksum(db, r.series.id, r.vintage), methodLine: r.methodLine }],
-      turningPoints: r.turningPoints.map((t) => ({ period: t.period, type: t.type })),
-      endOfSamplePeriods: r.endOfSamplePeriods,
-      methodLine: r.methodLine,
-      vintageStamp: r.vintageStamp,
-      caution: CAUTION_LINE,
-      software,
-      frozenAt: frozen ? new Date().toISOString() : null,
-    };
+    const studies = [{ id: s.id, title: s.title, method: r.method, params: r.params, transform: r.transform, vintage: r.vintage, asOf: r.asOf, vintageChecksum: await vintageChecksum(db, r.series.id, r.vintage), methodLine: r.methodLine }];
+    return single('study', r, studies, [{ id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source }]);
   }
   if (!row.panel_id) throw conflict('exhibit_source_gone', 'The study or panel this exhibit was drafted from no longer exists.');
   const panel = await panelById(db, user, row.panel_id).catch((e) => {
@@ -118,49 +102,25 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
     throw e;
   });
   const data: PanelData = await panelData(db, panel);
-  const studies = [];
+  const studies: Snapshot['studies'] = [];
   for (const l of data.lines) {
     const s = data.studies.find((x) => x.id === l.studyId)!;
     studies.push({ id: s.id, title: s.title, method: s.method, params: s.params, transform: s.transform, vintage: l.vintage, asOf: '', vintageChecksum: await vintageChecksum(db, s.seriesId, l.vintage), methodLine: l.methodLine });
   }
   if (data.kind === 'study' && data.result) {
-    const r = data.result;
-    studies[0].asOf = r.asOf;
-    return {
-      schema: 1,
-      kind: 'panel',
-      chartKind: row.chart_kind === 'trend' ? 'trend' : 'cycle',
-      text,
-      series: data.series,
-      lines: [
-        { label: 'input', role: 'input', periods: r.periods, values: r.input },
-        { label: 'trend', role: 'trend', periods: r.periods, values: r.trend },
-        { label: 'cycle', role: 'cycle', periods: r.periods, values: r.cycle },
-      ],
-      studies,
-      turningPoints: r.turningPoints.map((t) => ({ period: t.period, type: t.type })),
-      endOfSamplePeriods: r.endOfSamplePeriods,
-      methodLine: r.methodLine,
-      vintageStamp: r.vintageStamp,
-      caution: CAUTION_LINE,
-      software,
-      frozenAt: frozen ? new Date().toISOString() : null,
-    };
+    studies[0].asOf = data.result.asOf;
+    return single('panel', data.result, studies, data.series);
   }
   return {
-    schema: 1,
+    ...common,
     kind: 'panel',
     chartKind: 'compare',
-    text,
     series: data.series,
     lines: data.lines.map((l) => ({ label: l.label, role: 'cycle' as const, periods: l.periods, values: l.values })),
     studies,
     endOfSamplePeriods: 0,
     methodLine: data.methodLines.join(' · '),
     vintageStamp: data.vintageStamps.join(' · '),
-    caution: CAUTION_LINE,
-    software,
-    frozenAt: frozen ? new Date().toISOString() : null,
   };
 }
 

@@ -3,6 +3,9 @@
  * vintages, the revision triangle and their summaries.
  */
 import * as dfd from 'danfojs';
+import type { RevisionRow, RevisionStatus, RevisionSummary } from '../schemas/catalogue.js';
+
+export type { RevisionRow, RevisionStatus, RevisionSummary };
 
 export interface VintageData {
   label: string;
@@ -42,27 +45,6 @@ export function alignVintages(vintages: VintageData[]): Aligned {
     present[v.label] = column(df, `p${k}`).map((x) => x === 1);
   });
   return { periods, columns, present };
-}
-
-export type RevisionStatus = 'revised' | 'new' | 'removed' | 'unchanged';
-
-export interface RevisionRow {
-  period: string;
-  from: number | null;
-  to: number | null;
-  revision: number | null;
-  percent: number | null;
-  status: RevisionStatus;
-}
-
-export interface RevisionSummary {
-  revised: number;
-  new: number;
-  removed: number;
-  unchanged: number;
-  meanRevision: number | null;
-  meanAbsoluteRevision: number | null;
-  maxAbsoluteRevision: number | null;
 }
 
 /** Period-by-period revisions from vintage `a` to vintage `b`. */

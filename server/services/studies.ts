@@ -21,27 +21,14 @@ import {
 import type { Db } from '../db.js';
 import { conflict, forbidden, HttpError, notFound } from '../lib/errors.js';
 import type { PublicUser } from '../schemas/auth.js';
-import type { CompareBody, CreateStudyBody, StudySpec } from '../schemas/studies.js';
+import type { CompareBody, CreateStudyBody, Study, StudySpec } from '../schemas/studies.js';
+export type { Study };
 import type { AnalysisPool } from '../workers/pool.js';
 import { audit } from './audit.js';
 import { listVintages, seriesValues } from './catalogue.js';
 import { runBatch } from './decompose.js';
 import type { BatchItem } from '../workers/decompose-task.js';
 
-export interface Study {
-  id: number;
-  title: string;
-  notes: string | null;
-  seriesId: number;
-  series: { code: string; title: string; frequency: string; unit: string };
-  vintage: number | 'latest';
-  transform: 'none' | 'log' | 'log100';
-  method: Method;
-  params: Record<string, unknown>;
-  owner: { id: number; name: string };
-  createdAt: string;
-  updatedAt: string;
-}
 
 /** The cautions of DESIGN.md, shown under every decomposition and exhibit. */
 export const CAUTIONS = [

@@ -3,6 +3,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { signedIn } from '../helpers/session.js';
+import { asBytes, asText, ndjsonEvents } from '../helpers/parsers.js';
 
 let t: TestApp;
 let steward: Awaited<ReturnType<typeof signedIn>>;
@@ -129,12 +130,8 @@ describe('loads in each format', () => {
   it('streams progress for a bulk load as NDJSON', async () => {
     await newSeries('T_STREAM', 'A');
     const file = Buffer.from('STRUCTURE,STRUCTURE_ID,ACTION,FREQ,SERIES_CODE,TIME_PERIOD,OBS_VALUE\n' + Array.from({ length: 30 }, (_, i) => `df,X,I,A,T_STREAM,${1990 + i},${i}`).join('\n') + '\n');
-    const res = await steward.post('/api/v1/loads').set('Accept', 'application/x-ndjson').attach('file', file, 's.csv').buffer(true).parse((r, cb) => {
-      let text = '';
-      r.on('data', (c: Buffer) => (text += c.toString()));
-      r.on('end', () => cb(null, text));
-    });
-    const events = String(res.body).trim().split('\n').map((l) => JSON.parse(l));
+    const res = await steward.post('/api/v1/loads').set('Accept', 'application/x-ndjson').attach('file', file, 's.csv').buffer(true).parse(asText as never);
+    const events = ndjsonEvents(res.body);
     expect(events.some((e) => e.type === 'progress')).toBe(true);
     expect(events[events.length - 1].type).toBe('result');
     expect(events[events.length - 1].result.vintages[0].code).toBe('T_STREAM');
@@ -274,11 +271,7 @@ describe('exports', () => {
     // The SDMX-CSV export loads back as the same data: refused as no change.
     const back = await steward.post(`/api/v1/series/${id}/vintages`).attach('file', Buffer.from(s.text), 'back.csv').expect(409);
     expect(back.body.error.code).toBe('no_change');
-    const x = await viewer.get(`/api/v1/series/${id}/vintages/1/export?format=xlsx`).buffer(true).parse((r, cb) => {
-      const chunks: Buffer[] = [];
-      r.on('data', (d: Buffer) => chunks.push(d));
-      r.on('end', () => cb(null, Buffer.concat(chunks)));
-    }).expect(200);
+    const x = await viewer.get(`/api/v1/series/${id}/vintages/1/export?format=xlsx`).buffer(true).parse(asBytes as never).expect(200);
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(x.body as never);
     const ws = wb.worksheets[0];

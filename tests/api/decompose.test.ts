@@ -3,6 +3,7 @@ import { decompose } from '../../server/analysis/index.js';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { references as R } from '../helpers/references.js';
 import { signedIn } from '../helpers/session.js';
+import { asText, ndjsonEvents } from '../helpers/parsers.js';
 
 let t: TestApp;
 let agent: Awaited<ReturnType<typeof signedIn>>;
@@ -131,13 +132,9 @@ describe('POST /api/v1/decompose/batch', () => {
       .set('Accept', 'application/x-ndjson')
       .send({ items, output: 'summary' })
       .buffer(true)
-      .parse((r, cb) => {
-        let text = '';
-        r.on('data', (x: Buffer) => (text += x.toString()));
-        r.on('end', () => cb(null, text));
-      })
+      .parse(asText as never)
       .expect(200);
-    const events = String(res.body).trim().split('\n').map((l) => JSON.parse(l));
+    const events = ndjsonEvents(res.body);
     const progress = events.filter((e) => e.type === 'progress');
     expect(progress.length).toBeGreaterThan(0);
     expect(progress[progress.length - 1].done).toBe(1200);

@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { relativeError } from '../helpers/references.js';
 import { signedIn } from '../helpers/session.js';
+import { asBytes, asText, ndjsonEvents } from '../helpers/parsers.js';
 
 const fixture = JSON.parse(fs.readFileSync(path.join(path.dirname(fileURLToPath(import.meta.url)), '..', 'fixtures', 'realtime-demo.json'), 'utf8'));
 
@@ -122,11 +123,7 @@ describe('studies', () => {
     expect(lines[1]).toMatch(/^1995-Q1,/);
     expect(lines[1]).toContain('"Hodrick–Prescott, λ = 1 600; 100 × log",');
     expect(lines[1]).toContain('data as of 2025-02-14, vintage 2');
-    const x = await economist.get(`/api/v1/studies/${s.id}/export?format=xlsx`).buffer(true).parse((r, cb) => {
-      const c: Buffer[] = [];
-      r.on('data', (d: Buffer) => c.push(d));
-      r.on('end', () => cb(null, Buffer.concat(c)));
-    });
+    const x = await economist.get(`/api/v1/studies/${s.id}/export?format=xlsx`).buffer(true).parse(asBytes as never);
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(x.body as never);
     expect(wb.worksheets.map((w) => w.name)).toEqual(['Observations', 'About']);
@@ -166,13 +163,9 @@ describe('real-time revision analysis', () => {
       .post(`/api/v1/studies/${s.id}/realtime`)
       .set('Accept', 'application/x-ndjson')
       .buffer(true)
-      .parse((r, cb) => {
-        let text = '';
-        r.on('data', (x: Buffer) => (text += x.toString()));
-        r.on('end', () => cb(null, text));
-      })
+      .parse(asText as never)
       .expect(200);
-    const events = String(res.body).trim().split('\n').map((l) => JSON.parse(l));
+    const events = ndjsonEvents(res.body);
     expect(events.filter((e) => e.type === 'progress').length).toBeGreaterThan(1);
     const result = events[events.length - 1];
     expect(result.type).toBe('result');

@@ -1,31 +1,10 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
 import type { StudyResult } from '@/features/studies/api';
+import type { Board, Panel } from '@schemas/boards';
 
-export interface Board {
-  id: number;
-  title: string;
-  description: string | null;
-  visibility: 'private' | 'team';
-  owner: { id: number; name: string };
-  createdAt: string;
-  updatedAt: string;
-  panelCount?: number;
-}
-export interface Panel {
-  id: number;
-  boardId: number;
-  position: number;
-  width: 1 | 2;
-  height: 's' | 'm' | 'l';
-  title: string;
-  notes: string | null;
-  kind: 'study' | 'compare';
-  studyIds: number[];
-  compareBy: 'methods' | 'series' | 'vintages' | null;
-  vintages: number[] | null;
-  updatedAt: string;
-}
+export type { Board, Panel };
+
 export interface PanelData {
   panelId: number;
   kind: 'study' | 'compare';

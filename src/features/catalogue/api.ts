@@ -1,6 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { CreateSeriesBody } from '@schemas/catalogue';
+import type { CreateSeriesBody, RevisionRow, RevisionSummary } from '@schemas/catalogue';
+
+export type { RevisionRow, RevisionSummary };
 import type { Frequency } from '@analysis/frequency';
 
 export interface Series {
@@ -35,23 +37,6 @@ export interface Problem {
   column: string | null;
   message: string;
   severity: 'error' | 'warning';
-}
-export interface RevisionRow {
-  period: string;
-  from: number | null;
-  to: number | null;
-  revision: number | null;
-  percent: number | null;
-  status: 'revised' | 'new' | 'removed' | 'unchanged';
-}
-export interface RevisionSummary {
-  revised: number;
-  new: number;
-  removed: number;
-  unchanged: number;
-  meanRevision: number | null;
-  meanAbsoluteRevision: number | null;
-  maxAbsoluteRevision: number | null;
 }
 export interface SeriesPreview {
   series: { id: number; code: string; title: string; frequency: Frequency; unit: string } | null;

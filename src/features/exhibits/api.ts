@@ -1,24 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
+import type { Snapshot } from '@schemas/boards';
+
+export type { Snapshot };
 
 export type ExhibitState = 'draft' | 'in_review' | 'returned' | 'approved' | 'published' | 'withdrawn';
 
-export interface Snapshot {
-  schema: 1;
-  kind: 'study' | 'panel';
-  chartKind: 'cycle' | 'trend' | 'compare';
-  text: { title: string; subtitle: string | null; units: string | null; sourceLine: string | null; notes: string | null };
-  series: { id: number; code: string; title: string; unit: string; source: string }[];
-  lines: { label: string; role: 'input' | 'trend' | 'cycle'; periods: string[]; values: (number | null)[] }[];
-  studies: { id: number; title: string; method: string; params: Record<string, unknown>; transform: string; vintage: number; asOf: string; vintageChecksum: string; methodLine: string }[];
-  turningPoints?: { period: string; type: 'peak' | 'trough' }[];
-  endOfSamplePeriods: number;
-  methodLine: string;
-  vintageStamp: string;
-  caution: string;
-  software: { name: string; version: string };
-  frozenAt: string | null;
-}
 
 export interface ExhibitEvent {
   id: number;

@@ -1,23 +1,11 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect, useState } from 'react';
 import { api } from '@/lib/api';
-import type { CompareBody, CreateStudyBody, StudySpec } from '@schemas/studies';
+import type { CompareBody, CreateStudyBody, Study, StudySpec } from '@schemas/studies';
+
+export type { Study };
 import type { Method } from '@analysis/frequency';
 
-export interface Study {
-  id: number;
-  title: string;
-  notes: string | null;
-  seriesId: number;
-  series: { code: string; title: string; frequency: 'A' | 'Q' | 'M'; unit: string };
-  vintage: number | 'latest';
-  transform: 'none' | 'log' | 'log100';
-  method: Method;
-  params: Record<string, unknown>;
-  owner: { id: number; name: string };
-  createdAt: string;
-  updatedAt: string;
-}
 
 export interface StudyResult {
   method: Method;
