@@ -1,18 +1,15 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type TestServer } from '../helpers/app.js';
-import { openBrowser, signInAs, signOut, type BrowserSession } from '../helpers/browser.js';
+import type { TestServer } from '../helpers/app.js';
+import { openSuite, signInAs, signOut, type BrowserSession, type Suite } from '../helpers/browser.js';
 
 let t: TestServer;
 let browser: BrowserSession;
+let suite: Suite | undefined;
 
 beforeAll(async () => {
-  t = await startServer({}, { seedDemo: true });
-  browser = await openBrowser();
+  ({ t, browser } = suite = await openSuite());
 });
-afterAll(async () => {
-  await browser?.close();
-  await t?.close();
-});
+afterAll(() => suite?.close());
 
 describe('inviting a new person, end to end', () => {
   it('admin invites; the mail is read on the Mailbox page; the invitee accepts, signs in and sees only what a reader may', async () => {

@@ -2,20 +2,17 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type TestServer } from '../helpers/app.js';
-import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser.js';
+import type { TestServer } from '../helpers/app.js';
+import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
 
 let t: TestServer;
 let browser: BrowserSession;
+let suite: Suite | undefined;
 
 beforeAll(async () => {
-  t = await startServer({}, { seedDemo: true });
-  browser = await openBrowser();
+  ({ t, browser } = suite = await openSuite());
 });
-afterAll(async () => {
-  await browser?.close();
-  await t?.close();
-});
+afterAll(() => suite?.close());
 
 describe('a steward loads a revised release', () => {
   it('uploads, reads the preview, confirms, and sees vintage n+1 and its revisions chart', async () => {

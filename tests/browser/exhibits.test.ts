@@ -1,24 +1,21 @@
 import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type TestServer } from '../helpers/app.js';
-import { openBrowser, signInAs, signOut, type BrowserSession } from '../helpers/browser.js';
+import type { TestServer } from '../helpers/app.js';
+import { openSuite, signInAs, signOut, type BrowserSession, type Suite } from '../helpers/browser.js';
 import { signedIn } from '../helpers/session.js';
 
 let t: TestServer;
 let browser: BrowserSession;
+let suite: Suite | undefined;
 
 beforeAll(async () => {
-  t = await startServer({}, { seedDemo: true });
-  browser = await openBrowser();
+  ({ t, browser } = suite = await openSuite());
   const economist = await signedIn(t, 'economist@demo.test');
   const gdp = (await t.db('series').where('code', 'EST_GDP_REAL').first()).id;
   await economist.post('/api/v1/studies').send({ title: 'Output gap (HP)', seriesId: gdp, vintage: 'latest', transform: 'log100', method: 'hp', params: { lambda: 1600 } }).expect(201);
   await economist.post('/api/v1/studies').send({ title: 'Output gap (Hamilton)', seriesId: gdp, vintage: 'latest', transform: 'log100', method: 'hamilton', params: {} }).expect(201);
 });
-afterAll(async () => {
-  await browser?.close();
-  await t?.close();
-});
+afterAll(() => suite?.close());
 
 describe('from a board to a published exhibit', () => {
   it('economist composes a board and drafts an exhibit; editor returns, then approves and publishes; a reader downloads it', async () => {

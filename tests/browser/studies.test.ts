@@ -1,19 +1,16 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { startServer, type TestServer } from '../helpers/app.js';
-import { openBrowser, signInAs, type BrowserSession } from '../helpers/browser.js';
+import type { TestServer } from '../helpers/app.js';
+import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
 import { signedIn } from '../helpers/session.js';
 
 let t: TestServer;
 let browser: BrowserSession;
+let suite: Suite | undefined;
 
 beforeAll(async () => {
-  t = await startServer({}, { seedDemo: true });
-  browser = await openBrowser();
+  ({ t, browser } = suite = await openSuite());
 });
-afterAll(async () => {
-  await browser?.close();
-  await t?.close();
-});
+afterAll(() => suite?.close());
 
 const sd = async (page: BrowserSession['page']) => (await page.getByTestId('cycle-stats').locator('tr', { hasText: 'Standard deviation' }).locator('td').innerText()).trim();
 

@@ -60,3 +60,24 @@ export async function signOut(page: Page) {
   await page.getByRole('button', { name: 'Sign out' }).click();
   await page.waitForURL(/sign-in/, { timeout: 15_000 });
 }
+
+export interface Suite {
+  t: import('./app.js').TestServer;
+  browser: BrowserSession;
+  close(): Promise<void>;
+}
+
+/** A server on the demo workspace and a fresh Chromium profile, for one browser test file. */
+export async function openSuite(): Promise<Suite> {
+  const { startServer } = await import('./app.js');
+  const t = await startServer({}, { seedDemo: true });
+  const browser = await openBrowser();
+  return {
+    t,
+    browser,
+    async close() {
+      await browser.close();
+      await t.close();
+    },
+  };
+}
