@@ -100,6 +100,9 @@ function Moves({ exhibit }: { exhibit: Exhibit }) {
         ))}
       </div>
       {exhibit.moves.some((m) => m.to === 'in_review') && <p className="text-xs text-ink-faint">Submitting freezes the data, vintages, method and parameters as they are now.</p>}
+      {exhibit.moves.some((m) => m.to === 'approved' || m.to === 'published') && (
+        <p className="text-xs text-ink-faint">Check the exhibit against your institution’s own publication and methodology rules before approving or publishing it.</p>
+      )}
       <ErrorNote error={move.error} />
     </div>
   );
