@@ -3,7 +3,7 @@
  *
  * Trend τ = argmin Σ wₜ(yₜ − τₜ)² + λ·Σ(Δᵈτₜ)², i.e. (W + λ·DᵀD)·τ = W·y with D the (n−d)×n
  * difference matrix of order d (d = 2: Hodrick and Prescott 1997, "Postwar U.S. business cycles",
- * JMCB 29(1); d = 1: the first-difference penalty of the classic Tikhonov smoother; Whittaker
+ * JMCB 29(1); d = 1: the first-difference penalty, which smooths towards a level; Whittaker
  * 1923, Henderson 1924).
  *
  * Complete series (W = I) are solved in the *cycle form*: by the Woodbury identity
