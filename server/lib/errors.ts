@@ -20,10 +20,4 @@ export const conflict = (code: string, message: string, details?: unknown) => ne
 export const gone = (code: string, message: string) => new HttpError(410, code, message);
 export const unprocessable = (code: string, message: string, details?: unknown) => new HttpError(422, code, message, details);
 
-/** One problem in an uploaded file, by row and column (1-based rows, as a spreadsheet counts them). */
-export interface FileProblem {
-  row: number | null;
-  column: string | null;
-  message: string;
-  severity: 'error' | 'warning';
-}
+export type { FileProblem } from '../schemas/catalogue.js';

@@ -6,16 +6,9 @@
 import type { AddressInfo } from 'node:net';
 import { simpleParser } from 'mailparser';
 import { SMTPServer } from 'smtp-server';
+import type { MailboxMessage } from '../schemas/auth.js';
 
-export interface StoredMessage {
-  id: number;
-  receivedAt: string;
-  from: string;
-  to: string[];
-  subject: string;
-  text: string;
-  html: string | null;
-}
+export type StoredMessage = MailboxMessage;
 
 export interface FakeMailServer {
   port: number;

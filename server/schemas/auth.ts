@@ -81,3 +81,14 @@ export const createTokenSchema = z.object({
 export const updateSettingsSchema = z.object({
   publicExhibitLinks: z.boolean(),
 });
+
+/** A message caught by the local fake mail server (the Mailbox page). */
+export interface MailboxMessage {
+  id: number;
+  receivedAt: string;
+  from: string;
+  to: string[];
+  subject: string;
+  text: string;
+  html: string | null;
+}

@@ -64,3 +64,30 @@ export interface RevisionSummary {
   meanAbsoluteRevision: number | null;
   maxAbsoluteRevision: number | null;
 }
+
+/** One problem in an uploaded file, by row and column (1-based rows, as a spreadsheet counts them). */
+export interface FileProblem {
+  row: number | null;
+  column: string | null;
+  message: string;
+  severity: 'error' | 'warning';
+}
+
+/** What a load would do to one series (the preview), as the API answers it. */
+export interface SeriesPreviewBase {
+  series: { id: number; code: string; title: string; frequency: 'A' | 'Q' | 'M'; unit: string } | null;
+  key: string | null;
+  rowCount: number;
+  firstPeriod: string | null;
+  lastPeriod: string | null;
+  missingValues: number;
+  checksum: string | null;
+  latestVintage: number | null;
+  identicalToLatest: boolean;
+  changes: RevisionSummary | null;
+  /** Up to 500 changed periods, for the preview table. */
+  changedPeriods: RevisionRow[];
+  problems: FileProblem[];
+  errors: number;
+  warnings: number;
+}

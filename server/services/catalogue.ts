@@ -9,7 +9,7 @@ import { badRequest, conflict, notFound, unprocessable, type FileProblem } from 
 import { sha256 } from '../lib/secrets.js';
 import { checkObservations, splitSeries, type SeriesRows } from '../importers/observations.js';
 import { readTable, type FileFormat } from '../importers/table.js';
-import type { CreateSeriesBody } from '../schemas/catalogue.js';
+import type { CreateSeriesBody, SeriesPreviewBase } from '../schemas/catalogue.js';
 import { audit } from './audit.js';
 import { alignVintages, compareVintages, type RevisionRow, type RevisionSummary } from './frames.js';
 
@@ -186,22 +186,7 @@ export function checksumOf(periods: string[], values: (number | null)[]): string
 
 // ------------------------------------------------------------------ loads
 
-export interface SeriesPreview {
-  series: { id: number; code: string; title: string; frequency: Frequency; unit: string } | null;
-  key: string | null;
-  rowCount: number;
-  firstPeriod: string | null;
-  lastPeriod: string | null;
-  missingValues: number;
-  checksum: string | null;
-  latestVintage: number | null;
-  identicalToLatest: boolean;
-  changes: RevisionSummary | null;
-  /** Up to 500 changed periods, for the preview table. */
-  changedPeriods: RevisionRow[];
-  problems: FileProblem[];
-  errors: number;
-  warnings: number;
+export interface SeriesPreview extends SeriesPreviewBase {
   /** Sorted observations (kept out of the JSON answer for large loads). */
   periods: string[];
   values: (number | null)[];

@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { CreateSeriesBody, RevisionRow, RevisionSummary } from '@schemas/catalogue';
+import type { CreateSeriesBody, FileProblem, RevisionRow, RevisionSummary, SeriesPreviewBase } from '@schemas/catalogue';
 
 export type { RevisionRow, RevisionSummary };
 import type { Frequency } from '@analysis/frequency';
@@ -32,27 +32,8 @@ export interface Vintage {
   createdAt: string;
   createdBy: { id: number; name: string } | null;
 }
-export interface Problem {
-  row: number | null;
-  column: string | null;
-  message: string;
-  severity: 'error' | 'warning';
-}
-export interface SeriesPreview {
-  series: { id: number; code: string; title: string; frequency: Frequency; unit: string } | null;
-  key: string | null;
-  rowCount: number;
-  firstPeriod: string | null;
-  lastPeriod: string | null;
-  missingValues: number;
-  checksum: string | null;
-  latestVintage: number | null;
-  identicalToLatest: boolean;
-  changes: RevisionSummary | null;
-  changedPeriods: RevisionRow[];
-  problems: Problem[];
-  errors: number;
-  warnings: number;
+export type Problem = FileProblem;
+export interface SeriesPreview extends SeriesPreviewBase {
   observations?: { periods: string[]; values: (number | null)[] };
 }
 export interface LoadPreview {

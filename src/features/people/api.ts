@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { InviteBody, Role } from '@schemas/auth';
+import type { InviteBody, MailboxMessage, Role } from '@schemas/auth';
 
 export interface Person {
   id: number;
@@ -21,15 +21,7 @@ export interface Invitation {
   expired: boolean;
   sendCount: number;
 }
-export interface MailMessage {
-  id: number;
-  receivedAt: string;
-  from: string;
-  to: string[];
-  subject: string;
-  text: string;
-  html: string | null;
-}
+export type MailMessage = MailboxMessage;
 export interface AuditRow {
   id: number;
   at: string;
