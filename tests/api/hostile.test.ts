@@ -3,6 +3,7 @@
  * markup and SQL-looking text are stored and returned as plain text.
  */
 import ExcelJS from 'exceljs';
+import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { signedIn } from '../helpers/session.js';
@@ -114,6 +115,21 @@ describe('text fields keep markup and SQL as text', () => {
     const economist = await signedIn(t, 'economist@demo.test');
     const study = await economist.post('/api/v1/studies').send({ title: NASTY[0], notes: NASTY[1], seriesId, vintage: 'latest', transform: 'log100', method: 'hp' }).expect(201);
     await economist.post('/api/v1/exhibits').send({ studyId: study.body.id, title: NASTY[4], subtitle: NASTY[2], notes: NASTY[3] }).expect(201);
+    const ex = (await economist.post('/api/v1/exhibits').send({ studyId: study.body.id, title: NASTY[1], units: NASTY[2], sourceLine: NASTY[0] }).expect(201)).body;
+    expect(ex.units).toBe(NASTY[2]);
+    expect(ex.sourceLine).toBe(NASTY[0]);
+    const board = (await economist.post('/api/v1/boards').send({ title: NASTY[1], description: NASTY[0], visibility: 'team' }).expect(201)).body;
+    expect(board.title).toBe(NASTY[1]);
+    const panel = (await economist.post(`/api/v1/boards/${board.id}/panels`).send({ title: NASTY[3], notes: NASTY[4], studyIds: [study.body.id] }).expect(201)).body;
+    expect(panel.notes).toBe(NASTY[4]);
+    const token = (await economist.post('/api/v1/tokens').send({ name: NASTY[1] }).expect(201)).body;
+    expect(token.name).toBe(NASTY[1]);
+    const admin = await signedIn(t, 'admin@demo.test');
+    await admin.post('/api/v1/invitations').send({ email: 'nasty@demo.test', roles: ['viewer'] }).expect(201);
+    const mail = await t.mail.waitFor((m) => m.to.includes('nasty@demo.test'));
+    const inviteToken = /\/invite\/(\S+)/.exec(mail.text)![1];
+    const joined = (await request(t.app).post('/api/v1/invitations/accept').set('Origin', t.config.publicOrigin).send({ token: inviteToken, name: NASTY[3], password: 'a-long-new-password' }).expect(201)).body;
+    expect(joined.user.name).toBe(NASTY[3]);
     const search = await steward.get(`/api/v1/series?q=${encodeURIComponent(NASTY[1])}`).expect(200);
     expect(search.body.items.map((s: { title: string }) => s.title)).toEqual([NASTY[1]]);
     for (const table of ['users', 'series', 'observations', 'vintages']) expect(await t.db.schema.hasTable(table)).toBe(true);
