@@ -91,3 +91,32 @@ export interface SeriesPreviewBase {
   errors: number;
   warnings: number;
 }
+
+/** A series of the Catalogue, as the API answers it. */
+export interface Series {
+  id: number;
+  code: string;
+  title: string;
+  frequency: 'A' | 'Q' | 'M';
+  unit: string;
+  seasonalAdjustment: (typeof SA_VALUES)[number];
+  source: string;
+  notes: string | null;
+  sdmxKey: string | null;
+  createdAt: string;
+  updatedAt: string;
+}
+
+/** A vintage (one stored release of a series), as the API answers it. */
+export interface Vintage {
+  number: number;
+  asOf: string;
+  note: string | null;
+  rowCount: number;
+  checksum: string;
+  firstPeriod: string | null;
+  lastPeriod: string | null;
+  createdAt: string;
+  createdBy: { id: number; name: string } | null;
+  loadId: number | null;
+}

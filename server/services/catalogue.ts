@@ -3,42 +3,18 @@
  * exports. A load is all or nothing: one transaction writes every vintage it makes.
  */
 import type { Knex } from 'knex';
-import type { Frequency } from '../analysis/frequency.js';
 import type { Db } from '../db.js';
 import { badRequest, conflict, notFound, unprocessable, type FileProblem } from '../lib/errors.js';
 import { sha256 } from '../lib/secrets.js';
 import { checkObservations, splitSeries, type SeriesRows } from '../importers/observations.js';
 import { readTable, type FileFormat } from '../importers/table.js';
-import type { CreateSeriesBody, SeriesPreviewBase } from '../schemas/catalogue.js';
+import type { CreateSeriesBody, Series, SeriesPreviewBase, Vintage } from '../schemas/catalogue.js';
 import { audit } from './audit.js';
 import { alignVintages, compareVintages, type RevisionRow, type RevisionSummary } from './frames.js';
 
-export interface SeriesRow {
-  id: number;
-  code: string;
-  title: string;
-  frequency: Frequency;
-  unit: string;
-  seasonalAdjustment: string;
-  source: string;
-  notes: string | null;
-  sdmxKey: string | null;
-  createdAt: string;
-  updatedAt: string;
-}
-
-export interface VintageInfo {
-  number: number;
-  asOf: string;
-  note: string | null;
-  rowCount: number;
-  checksum: string;
-  firstPeriod: string | null;
-  lastPeriod: string | null;
-  createdAt: string;
-  createdBy: { id: number; name: string } | null;
-  loadId: number | null;
-}
+/** A series and a vintage as the API answers them (shared with the client). */
+export type SeriesRow = Series;
+export type VintageInfo = Vintage;
 
 import { contiguous, dateOnly, iso, manySeriesValues, toSeries, toVintage, type SeriesValues } from './values.js';
 export { manySeriesValues, type SeriesValues };

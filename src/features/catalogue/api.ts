@@ -1,36 +1,11 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { CreateSeriesBody, FileProblem, RevisionRow, RevisionSummary, SeriesPreviewBase } from '@schemas/catalogue';
+import type { CreateSeriesBody, FileProblem, RevisionRow, RevisionSummary, Series, SeriesPreviewBase, Vintage } from '@schemas/catalogue';
 
-export type { RevisionRow, RevisionSummary };
-import type { Frequency } from '@analysis/frequency';
+export type { RevisionRow, RevisionSummary, Series, Vintage };
 
-export interface Series {
-  id: number;
-  code: string;
-  title: string;
-  frequency: Frequency;
-  unit: string;
-  seasonalAdjustment: 'sa' | 'nsa' | 'sca';
-  source: string;
-  notes: string | null;
-  sdmxKey: string | null;
-  createdAt: string;
-  updatedAt: string;
-}
 export interface SeriesListItem extends Series {
   latestVintage: { number: number; asOf: string; loadedAt: string; lastPeriod: string | null; rowCount: number } | null;
-}
-export interface Vintage {
-  number: number;
-  asOf: string;
-  note: string | null;
-  rowCount: number;
-  checksum: string;
-  firstPeriod: string | null;
-  lastPeriod: string | null;
-  createdAt: string;
-  createdBy: { id: number; name: string } | null;
 }
 export type Problem = FileProblem;
 export interface SeriesPreview extends SeriesPreviewBase {
