@@ -36,7 +36,7 @@ export async function seedDemo(db: Db, { onlyIfEmpty, work = true }: { onlyIfEmp
   if (work) {
     const { seedDemoWork } = await import('./demo-work.js');
     const { loadConfig } = await import('../server/config.js');
-    await seedDemoWork(db, ids, loadConfig({ ...process.env, MAIL_MODE: 'off' }));
+    await seedDemoWork(db, ids, loadConfig(undefined, { MAIL_MODE: 'off' }));
   }
   return true;
 }

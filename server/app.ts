@@ -5,19 +5,17 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
-import express, { type ErrorRequestHandler, type Express, type RequestHandler } from 'express';
+import express, { type Express, type RequestHandler } from 'express';
 import helmet from 'helmet';
-import multer from 'multer';
 import { pinoHttp } from 'pino-http';
-import type { Config } from './config.js';
-import { isDbUnavailable, type Db } from './db.js';
+import type { AppDeps, AppOptions } from './deps.js';
+import { errorHandler } from './lib/error-answer.js';
 import { HttpError } from './lib/errors.js';
 import { mount, type RegisteredRoute, type RouteSpec } from './lib/http.js';
 import type { Logger } from './lib/logger.js';
-import { createLucia, type AppLucia } from './auth/lucia.js';
+import { createLucia } from './auth/lucia.js';
 import { authenticate, originCheck } from './auth/middleware.js';
-import { createMailer, type Mailer } from './mail/mailer.js';
-import type { FakeMailServer } from './mail/fake-smtp.js';
+import { createMailer } from './mail/mailer.js';
 import { authRoutes } from './routes/auth.js';
 import { healthRoutes } from './routes/health.js';
 import { openapiRoutes } from './routes/openapi.js';
@@ -27,25 +25,9 @@ import { decomposeRoutes } from './routes/decompose.js';
 import { studyRoutes } from './routes/studies.js';
 import { boardRoutes } from './routes/boards.js';
 import { exhibitRoutes } from './routes/exhibits.js';
-import { createAnalysisPool, type AnalysisPool } from './workers/pool.js';
+import { createAnalysisPool } from './workers/pool.js';
 
-export interface AppOptions {
-  config: Config;
-  db: Db;
-  logger: Logger;
-  /** Outgoing mail; made from the configuration when not given. */
-  mailer?: Mailer;
-  /** The local fake mail server, when one runs (development and tests): feeds the Mailbox page. */
-  mailbox?: FakeMailServer;
-  /** Worker threads for large batches; made from the configuration when not given. */
-  pool?: AnalysisPool;
-}
-
-export interface AppDeps extends AppOptions {
-  mailer: Mailer;
-  lucia: AppLucia;
-  pool: AnalysisPool;
-}
+export type { AppDeps, AppOptions };
 
 export const API_PREFIX = '/api/v1';
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
@@ -156,52 +138,5 @@ function securityHeaders(middleware: RequestHandler): RequestHandler {
   return (_req, res, next) => {
     res.setHeaders(new Map(Object.entries(headers)));
     next();
-  };
-}
-
-function errorHandler(logger: Logger, config: Config): ErrorRequestHandler {
-  return (err, req, res, _next) => {
-    let status = 500;
-    let code = 'internal_error';
-    let message = 'Something went wrong on the server. The error was logged; try again, and tell an administrator if it persists.';
-    let details: unknown;
-    let headers: Record<string, string> | undefined;
-    if (err instanceof HttpError) {
-      ({ status, code, message, details, headers } = err);
-    } else if (err?.type === 'entity.too.large') {
-      status = 413;
-      code = 'too_large';
-      message = `The request body is larger than the limit of ${Math.round(config.maxJsonBytes / 1048576)} MB; send less data per request.`;
-    } else if (err?.type === 'entity.parse.failed') {
-      status = 400;
-      code = 'invalid_json';
-      message = 'The request body is not valid JSON.';
-    } else if (err?.type === 'charset.unsupported' || err?.type === 'encoding.unsupported') {
-      status = 415;
-      code = 'unsupported_encoding';
-      message = 'Send the request body as UTF-8 JSON.';
-    } else if (err instanceof multer.MulterError) {
-      if (err.code === 'LIMIT_FILE_SIZE') {
-        status = 413;
-        code = 'file_too_large';
-        message = `The file is larger than the limit of ${Math.round(config.maxUploadBytes / 1048576)} MB.`;
-      } else {
-        status = 400;
-        code = 'invalid_upload';
-        message = `The upload is not valid (${err.message}); send one file in the field "file".`;
-      }
-    } else if (isDbUnavailable(err)) {
-      status = 503;
-      code = 'database_unavailable';
-      message = 'The database is not reachable right now. Nothing was changed; try again in a moment.';
-      headers = { 'Retry-After': '5' };
-    }
-    if (status >= 500) (req.log ?? logger).error({ err }, 'request failed');
-    if (res.headersSent) {
-      res.destroy();
-      return;
-    }
-    if (headers) res.set(headers);
-    res.status(status).json({ error: { code, message, ...(details === undefined ? {} : { details }) } });
   };
 }

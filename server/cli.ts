@@ -10,7 +10,7 @@ try {
       const applied = await migrateLatest(db);
       console.log(`[tidegauge] migrations: ${applied.length ? applied.join(', ') : 'up to date'}`);
     } else if (task === 'seed-demo-if-empty' || task === 'seed-demo') {
-      if (process.env.SEED_DEMO === '0') {
+      if (!config.seedDemo) {
         console.log('[tidegauge] SEED_DEMO=0: no demo workspace');
         continue;
       }

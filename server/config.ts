@@ -37,6 +37,10 @@ const schema = z.object({
   SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).optional(),
   STATIC_DIR: z.string().optional(),
+  /** `0`: no demo workspace on an empty database (the set-up scripts). */
+  SEED_DEMO: bool.default(true),
+  /** Values of immutable vintages kept in memory for repeated decompositions. */
+  OBSERVATION_CACHE_VALUES: z.coerce.number().int().min(0).max(500_000_000).default(2_000_000),
 });
 
 export type Config = {
@@ -56,12 +60,15 @@ export type Config = {
   signIn: { maxPerAccount: number; maxPerAddress: number; windowMinutes: number };
   logLevel: string;
   staticDir?: string;
+  seedDemo: boolean;
+  observationCacheValues: number;
 };
 
 export class ConfigError extends Error {}
 
-export function loadConfig(env: Record<string, string | undefined> = process.env): Config {
-  const parsed = schema.safeParse(env);
+/** Reads the environment (or `env`), with `overrides` on top; the only reader of process.env. */
+export function loadConfig(env: Record<string, string | undefined> = process.env, overrides: Record<string, string> = {}): Config {
+  const parsed = schema.safeParse({ ...env, ...overrides });
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.')}: ${i.message}`);
     throw new ConfigError(`Configuration is not valid:\n${lines.join('\n')}`);
@@ -95,5 +102,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     },
     logLevel: e.LOG_LEVEL ?? (e.NODE_ENV === 'test' ? 'silent' : 'info'),
     staticDir: e.STATIC_DIR,
+    seedDemo: e.SEED_DEMO,
+    observationCacheValues: e.OBSERVATION_CACHE_VALUES,
   };
 }

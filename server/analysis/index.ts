@@ -31,9 +31,11 @@ import { periodIndex, periodRange } from './periods.js';
 import { applyTransform, type Transform } from './transform.js';
 import { hpCycleInto, hpOneSidedCycle, hpOneSidedTrendWeighted, whittakerCycle, whittakerTrendFilled, whittakerTrendWeighted } from './whittaker.js';
 import { SingularSystemError } from './banded.js';
+import { AnalysisError } from './errors.js';
 import { paramSchemas, MAX_VALUES } from '../schemas/decompose.js';
 
 export type { Transform };
+export { AnalysisError };
 export * from './frequency.js';
 
 export interface DecomposeRequest {
@@ -74,18 +76,6 @@ export interface DecomposeResult {
   cycle: Float64Array;
   warnings: string[];
   diagnostics: Diagnostics;
-}
-
-/** A request the library cannot compute, with a message that says what to change. */
-export class AnalysisError extends Error {
-  constructor(
-    readonly code: string,
-    message: string,
-    readonly details?: unknown,
-  ) {
-    super(message);
-    this.name = 'AnalysisError';
-  }
 }
 
 const MIN_POINTS: Partial<Record<Method, number>> = { hp: 3, 'hp-one-sided': 3, 'boosted-hp': 3, 'l1-trend': 3, 'christiano-fitzgerald': 4 };

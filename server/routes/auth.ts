@@ -1,4 +1,4 @@
-import type { AppDeps } from '../app.js';
+import type { AppDeps } from '../deps.js';
 import { clearSessionCookie, setSessionCookie } from '../auth/middleware.js';
 import type { RouteSpec } from '../lib/http.js';
 import { acceptInvitationSchema, completeResetSchema, requestResetSchema, signInSchema } from '../schemas/auth.js';

@@ -1,4 +1,4 @@
-import type { AppDeps } from '../app.js';
+import type { AppDeps } from '../deps.js';
 import { idParam, type RouteSpec } from '../lib/http.js';
 import { createBoardSchema, panelSchema, reorderSchema, updateBoardSchema, updatePanelSchema } from '../schemas/boards.js';
 import * as boards from '../services/boards.js';

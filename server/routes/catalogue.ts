@@ -1,7 +1,7 @@
 import multer from 'multer';
 import type { RequestHandler } from 'express';
 import { z } from 'zod';
-import type { AppDeps } from '../app.js';
+import type { AppDeps } from '../deps.js';
 import { badRequest, conflict, unprocessable } from '../lib/errors.js';
 import { idParam, parseOr400, type RouteSpec } from '../lib/http.js';
 import { streamNdjson, wantsStream } from '../lib/stream.js';

@@ -1,4 +1,4 @@
-import type { AppDeps } from '../app.js';
+import type { AppDeps } from '../deps.js';
 import { lambdaPresets, cutoffPeriod, defaultParams, gainCurve, lambdaForCutoff, METHOD_NAMES, METHODS, TWO_SIDED, type Frequency, type Method } from '../analysis/index.js';
 import type { RouteSpec } from '../lib/http.js';
 import { batchRequestSchema, decomposeRequestSchema, frequencySchema, methodSchema } from '../schemas/decompose.js';

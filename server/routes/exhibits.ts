@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { AppDeps } from '../app.js';
+import type { AppDeps } from '../deps.js';
 import { sendTable } from '../importers/export.js';
 import { idParam, type RouteSpec } from '../lib/http.js';
 import { createExhibitSchema, transitionSchema, updateExhibitSchema } from '../schemas/boards.js';

@@ -1,4 +1,4 @@
-import type { AppDeps } from '../app.js';
+import type { AppDeps } from '../deps.js';
 import { idParam, type RouteSpec } from '../lib/http.js';
 import { createTokenSchema, inviteSchema, updateSettingsSchema, updateUserSchema } from '../schemas/auth.js';
 import * as accounts from '../services/accounts.js';

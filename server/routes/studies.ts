@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import type { AppDeps } from '../app.js';
+import type { AppDeps } from '../deps.js';
 import { idParam, type RouteSpec } from '../lib/http.js';
 import { streamNdjson, wantsStream } from '../lib/stream.js';
 import { compareSchema, createStudySchema, studySpecSchema, updateStudySchema } from '../schemas/studies.js';

@@ -2,22 +2,14 @@
  * Decompositions over HTTP: one series, or a batch (values sent, or stored series by id and
  * vintage). Large batches go to worker threads; progress can stream as NDJSON.
  */
-import { AnalysisError, decompose, toJsonResponse, type DecomposeJson, type DecomposeRequest } from '../analysis/index.js';
-import { badRequest, HttpError } from '../lib/errors.js';
+import { decompose, toJsonResponse, type DecomposeJson, type DecomposeRequest } from '../analysis/index.js';
+import { badRequest } from '../lib/errors.js';
 import type { AnalysisPool } from '../workers/pool.js';
 import { runBatchChunk, type BatchItem } from '../workers/decompose-task.js';
 
-export function toHttp(error: unknown): never {
-  if (error instanceof AnalysisError) throw new HttpError(400, error.code, error.message, error.details);
-  throw error;
-}
-
+/** One decomposition in its JSON form; an AnalysisError becomes a 400 in the error handler. */
 export function decomposeOne(request: DecomposeRequest): DecomposeJson {
-  try {
-    return toJsonResponse(decompose(request));
-  } catch (error) {
-    toHttp(error);
-  }
+  return toJsonResponse(decompose(request));
 }
 
 export type { RawItem } from './values.js';

@@ -3,7 +3,6 @@
  * with statistics, comparisons, and the real-time revision analysis across vintages.
  */
 import {
-  AnalysisError,
   crossCorrelations,
   cycleStatistics,
   decompose,
@@ -79,13 +78,8 @@ export async function getStudy(db: Db, id: number): Promise<Study> {
 /** Checks a study's specification by computing it once; returns the parameters with defaults filled. */
 export async function checkSpec(db: Db, spec: StudySpec) {
   const data = await seriesValues(db, spec.seriesId, spec.vintage);
-  try {
-    const r = decompose({ frequency: data.series.frequency, start: data.start ?? undefined, values: data.values, transform: spec.transform, method: spec.method, params: spec.params });
-    return { params: r.params, data, result: r };
-  } catch (error) {
-    if (error instanceof AnalysisError) throw new HttpError(400, error.code, error.message, error.details);
-    throw error;
-  }
+  const r = decompose({ frequency: data.series.frequency, start: data.start ?? undefined, values: data.values, transform: spec.transform, method: spec.method, params: spec.params });
+  return { params: r.params, data, result: r };
 }
 
 export async function createStudy(db: Db, owner: PublicUser, body: CreateStudyBody, ip?: string) {

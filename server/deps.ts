@@ -1,0 +1,30 @@
+/**
+ * What the routes and services are given: configuration, database, logger, mail and the worker
+ * pool. Its own module so that the app factory and the route modules both import it without
+ * importing each other.
+ */
+import type { Config } from './config.js';
+import type { Db } from './db.js';
+import type { Logger } from './lib/logger.js';
+import type { AppLucia } from './auth/lucia.js';
+import type { Mailer } from './mail/mailer.js';
+import type { FakeMailServer } from './mail/fake-smtp.js';
+import type { AnalysisPool } from './workers/pool.js';
+
+export interface AppOptions {
+  config: Config;
+  db: Db;
+  logger: Logger;
+  /** Outgoing mail; made from the configuration when not given. */
+  mailer?: Mailer;
+  /** The local fake mail server, when one runs (development and tests): feeds the Mailbox page. */
+  mailbox?: FakeMailServer;
+  /** Worker threads for large batches; made from the configuration when not given. */
+  pool?: AnalysisPool;
+}
+
+export interface AppDeps extends AppOptions {
+  mailer: Mailer;
+  lucia: AppLucia;
+  pool: AnalysisPool;
+}
