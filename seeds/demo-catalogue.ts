@@ -3,7 +3,8 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { Db } from '../server/db.js';
-import { createSeries, previewLoad, storeLoad } from '../server/services/catalogue.js';
+import { loadFile } from '../server/services/catalogue/loads.js';
+import { createSeries } from '../server/services/catalogue/series.js';
 
 const dir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'datasets', 'demo');
 
@@ -35,8 +36,7 @@ export async function seedDemoCatalogue(db: Db, people: Record<string, number>) 
     });
     for (const v of s.vintages) {
       const buffer = fs.readFileSync(path.join(dir, v.file));
-      const preview = await previewLoad(db, { buffer, filename: v.file }, series.id);
-      await storeLoad(db, steward, preview, { note: v.note, asOf: v.asOf });
+      await loadFile(db, { file: { buffer, filename: v.file }, seriesId: series.id, dryRun: false, fields: { note: v.note, asOf: v.asOf }, actor: { id: steward } });
     }
   }
 }

@@ -25,6 +25,7 @@ import { decomposeRoutes } from './routes/decompose.js';
 import { studyRoutes } from './routes/studies.js';
 import { boardRoutes } from './routes/boards.js';
 import { exhibitRoutes } from './routes/exhibits.js';
+import { configureObservationCache } from './services/catalogue/stored-values.js';
 import { createAnalysisPool } from './workers/pool.js';
 
 export type { AppDeps, AppOptions };
@@ -40,6 +41,7 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
     lucia: createLucia(db, config.sessionIdleHours, config.publicOrigin.startsWith('https://')),
     pool: options.pool ?? createAnalysisPool(config.workerThreads),
   };
+  configureObservationCache(config.observationCacheValues);
   const app = express();
   app.disable('x-powered-by');
   // API answers are computed per request; hashing every body for an ETag would only cost time.

@@ -7,7 +7,7 @@ import fs from 'node:fs';
 import { createDb, migrateLatest } from '../../server/db.js';
 import { hashPassword } from '../../server/auth/password.js';
 import { createToken } from '../../server/services/accounts.js';
-import { checksumOf } from '../../server/services/catalogue.js';
+import { checksumOf } from '../../server/services/catalogue/vintages.js';
 import { formatPeriod, periodIndex } from '../../server/analysis/periods.js';
 
 const SERIES = 10_000;

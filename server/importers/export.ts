@@ -58,16 +58,21 @@ export async function toXlsx(table: ExportTable): Promise<Buffer> {
   return Buffer.from(await wb.xlsx.writeBuffer());
 }
 
-/** Sends a table as a CSV or XLSX download named `name` (without the extension). */
-export async function sendTable(res: import('express').Response, table: ExportTable, name: string, format: 'csv' | 'xlsx') {
+export type ExportFormat = 'csv' | 'xlsx';
+
+/** A file ready to send: its name, content type and bytes (lib/http.ts sendFile sends it). */
+export interface ExportFile {
+  filename: string;
+  contentType: string;
+  body: Buffer | string;
+}
+
+export const CSV_TYPE = 'text/csv; charset=utf-8';
+export const XLSX_TYPE = 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet';
+
+/** A table as a CSV or XLSX file named `name` (without the extension; unsafe characters become "_"). */
+export async function buildExport(table: ExportTable, name: string, format: ExportFormat, extension: string = format): Promise<ExportFile> {
   const safe = name.replace(/[^A-Za-z0-9_.-]/g, '_');
-  if (format === 'xlsx') {
-    res.setHeader('Content-Type', 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet');
-    res.setHeader('Content-Disposition', `attachment; filename="${safe}.xlsx"`);
-    res.send(await toXlsx(table));
-  } else {
-    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-    res.setHeader('Content-Disposition', `attachment; filename="${safe}.csv"`);
-    res.send(toCsv(table));
-  }
+  if (format === 'xlsx') return { filename: `${safe}.${extension}`, contentType: XLSX_TYPE, body: await toXlsx(table) };
+  return { filename: `${safe}.${extension}`, contentType: CSV_TYPE, body: toCsv(table) };
 }

@@ -131,3 +131,10 @@ export function idParam(value: string | undefined, what: string): number {
   if (!Number.isInteger(n) || n <= 0 || n > 2 ** 31) throw new HttpError(404, 'not_found', `${what} was not found.`);
   return n;
 }
+
+/** Sends a file made by an exporter as a download. */
+export function sendFile(res: Response, file: { filename: string; contentType: string; body: Buffer | string }) {
+  res.setHeader('Content-Type', file.contentType);
+  res.setHeader('Content-Disposition', `attachment; filename="${file.filename}"`);
+  res.send(file.body);
+}

@@ -1,13 +1,16 @@
 import multer from 'multer';
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler } from 'express';
 import { z } from 'zod';
 import type { AppDeps } from '../deps.js';
-import { badRequest, conflict, unprocessable } from '../lib/errors.js';
-import { idParam, parseOr400, type RouteSpec } from '../lib/http.js';
-import { streamNdjson, wantsStream } from '../lib/stream.js';
+import { badRequest, conflict } from '../lib/errors.js';
+import { idParam, parseOr400, sendFile, type RouteSpec } from '../lib/http.js';
+import { answerWithProgress } from '../lib/stream.js';
 import { createSeriesSchema, loadFieldsSchema, updateSeriesSchema } from '../schemas/catalogue.js';
-import * as catalogue from '../services/catalogue.js';
-import { exportVintage } from '../services/exports.js';
+import { listLoads, loadFile, type LoadRequest } from '../services/catalogue/loads.js';
+import { revisionTriangle, revisions } from '../services/catalogue/revisions.js';
+import { createSeries, deleteSeries, getSeries, listSeries, updateSeries } from '../services/catalogue/series.js';
+import { listVintages, observationsOf, resolveVintage } from '../services/catalogue/vintages.js';
+import { vintageExport } from '../services/exports.js';
 
 const STEWARD = ['steward', 'admin'] as const;
 
@@ -21,11 +24,12 @@ function upload(maxBytes: number): RequestHandler {
   };
 }
 
-function loadInput(req: Parameters<RequestHandler>[0]) {
+/** The multipart fields of a load and the ?dryRun flag, checked. */
+function loadInput(req: Request): Pick<LoadRequest, 'file' | 'fields' | 'dryRun' | 'actor'> {
   if (!req.file) throw badRequest('file_missing', 'Attach the file in a field named "file".');
   const fields = parseOr400(loadFieldsSchema, { note: req.body?.note || undefined, asOf: req.body?.asOf || undefined, format: req.body?.format || undefined, expectChecksum: req.body?.expectChecksum || undefined }, 'load');
   const dryRun = ['1', 'true', 'yes'].includes(String(req.query.dryRun ?? '').toLowerCase());
-  return { file: { buffer: req.file.buffer, filename: req.file.originalname || 'upload', format: fields.format }, fields, dryRun };
+  return { file: { buffer: req.file.buffer, filename: req.file.originalname || 'upload', format: fields.format }, fields, dryRun, actor: { id: req.auth!.user.id, ip: req.ip } };
 }
 
 export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
@@ -41,7 +45,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'The Catalogue: every series with its latest vintage',
       tags: ['catalogue'],
       query: z.object({ q: z.string().max(100).optional(), frequency: z.enum(['A', 'Q', 'M']).optional(), unit: z.string().max(120).optional() }),
-      handler: async ({ query }) => ({ items: await catalogue.listSeries(db, query) }),
+      handler: async ({ query }) => ({ items: await listSeries(db, query) }),
     },
     {
       method: 'post',
@@ -51,7 +55,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['catalogue'],
       body: createSeriesSchema,
       status: 201,
-      handler: ({ body, auth, req }) => catalogue.createSeries(db, auth!.user.id, body, req.ip),
+      handler: ({ body, auth, req }) => createSeries(db, auth!.user.id, body, req.ip),
     },
     {
       method: 'get',
@@ -61,8 +65,8 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['catalogue'],
       handler: async ({ params }) => {
         const id = idParam(params.id, 'The series');
-        const series = await catalogue.getSeries(db, id);
-        const vintages = await catalogue.listVintages(db, id);
+        const series = await getSeries(db, id);
+        const vintages = await listVintages(db, id);
         return { ...series, vintageCount: vintages.length, latestVintage: vintages[0] ?? null };
       },
     },
@@ -73,7 +77,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Correct a series’ metadata',
       tags: ['catalogue'],
       body: updateSeriesSchema,
-      handler: ({ params, body, auth, req }) => catalogue.updateSeries(db, auth!.user.id, idParam(params.id, 'The series'), body, req.ip),
+      handler: ({ params, body, auth, req }) => updateSeries(db, auth!.user.id, idParam(params.id, 'The series'), body, req.ip),
     },
     {
       method: 'delete',
@@ -81,7 +85,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       access: STEWARD,
       summary: 'Delete a series that has no vintage yet',
       tags: ['catalogue'],
-      handler: ({ params, auth, req }) => catalogue.deleteSeries(db, auth!.user.id, idParam(params.id, 'The series'), req.ip),
+      handler: ({ params, auth, req }) => deleteSeries(db, auth!.user.id, idParam(params.id, 'The series'), req.ip),
     },
     {
       method: 'post',
@@ -91,24 +95,11 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['catalogue'],
       before: [upload(config.maxUploadBytes)],
       raw: true,
-      handler: async ({ params, req, res, auth }) => {
+      handler: async ({ params, req, res }) => {
         const seriesId = idParam(params.id, 'The series');
-        const { file, fields, dryRun } = loadInput(req);
-        const preview = await catalogue.previewLoad(db, file, seriesId);
-        if (dryRun) {
-          res.status(200).json({ preview: catalogue.previewJson(preview, { withObservations: preview.observations <= 5000 }) });
-          return;
-        }
-        if (preview.errors > 0) {
-          throw unprocessable('file_has_errors', `The file has ${preview.errors} problem${preview.errors === 1 ? '' : 's'} to fix; nothing was stored.`, catalogue.allProblems(preview).filter((p) => p.severity === 'error').slice(0, 200));
-        }
-        const stored = await catalogue.storeLoad(db, auth!.user.id, preview, fields, req.ip);
-        const v = stored.vintages[0];
-        res.status(201).json({
-          vintage: { number: v.number, asOf: v.asOf, rowCount: v.rowCount, checksum: v.checksum },
-          loadId: stored.loadId,
-          preview: catalogue.previewJson(preview, { withObservations: false }),
-        });
+        const input = loadInput(req);
+        const answer = await loadFile(db, { ...input, seriesId });
+        res.status(input.dryRun ? 200 : 201).json(answer);
       },
     },
     {
@@ -117,7 +108,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'Every vintage of a series, newest first, with who loaded it and when',
       tags: ['catalogue'],
-      handler: async ({ params }) => ({ items: await catalogue.listVintages(db, idParam(params.id, 'The series')) }),
+      handler: async ({ params }) => ({ items: await listVintages(db, idParam(params.id, 'The series')) }),
     },
     {
       method: 'get',
@@ -126,7 +117,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'One vintage (its number, or "latest")',
       tags: ['catalogue'],
       handler: async ({ params }) => {
-        const { id: _id, ...v } = await catalogue.resolveVintage(db, idParam(params.id, 'The series'), vintageRef(params.number));
+        const { id: _id, ...v } = await resolveVintage(db, idParam(params.id, 'The series'), vintageRef(params.number));
         return v;
       },
     },
@@ -140,8 +131,8 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'The observations of a vintage (its number, or "latest")',
       tags: ['catalogue'],
       handler: async ({ params }) => {
-        const v = await catalogue.resolveVintage(db, idParam(params.id, 'The series'), vintageRef(params.number));
-        const obs = await catalogue.observationsOf(db, v.id);
+        const v = await resolveVintage(db, idParam(params.id, 'The series'), vintageRef(params.number));
+        const obs = await observationsOf(db, v.id);
         return { vintage: v.number, asOf: v.asOf, ...obs };
       },
     },
@@ -153,12 +144,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['catalogue'],
       query: z.object({ format: z.enum(['csv', 'xlsx', 'sdmx-csv']).default('csv') }),
       raw: true,
-      handler: async ({ params, query, res }) => {
-        const file = await exportVintage(db, idParam(params.id, 'The series'), vintageRef(params.number), query.format);
-        res.setHeader('Content-Type', file.contentType);
-        res.setHeader('Content-Disposition', `attachment; filename="${file.filename}"`);
-        res.send(file.body);
-      },
+      handler: async ({ params, query, res }) => sendFile(res, await vintageExport(db, idParam(params.id, 'The series'), vintageRef(params.number), query.format)),
     },
     {
       method: 'get',
@@ -172,10 +158,10 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
         let from = query.from ? vintageRef(query.from) : undefined;
         const to = query.to ? vintageRef(query.to) : 'latest';
         if (from === undefined) {
-          const latest = await catalogue.resolveVintage(db, id, to);
+          const latest = await resolveVintage(db, id, to);
           from = Math.max(1, latest.number - 1);
         }
-        return catalogue.revisions(db, id, from as number | 'latest', to as number | 'latest');
+        return revisions(db, id, from as number | 'latest', to as number | 'latest');
       },
     },
     {
@@ -184,7 +170,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'The revision triangle: periods down, vintages across',
       tags: ['catalogue'],
-      handler: ({ params }) => catalogue.revisionTriangle(db, idParam(params.id, 'The series')),
+      handler: ({ params }) => revisionTriangle(db, idParam(params.id, 'The series')),
     },
     {
       method: 'post',
@@ -194,29 +180,9 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['catalogue'],
       before: [upload(config.maxUploadBytes)],
       raw: true,
-      handler: async ({ req, res, auth }) => {
-        const { file, fields, dryRun } = loadInput(req);
-        const work = async (progress?: (phase: string, done: number, total: number) => void) => {
-          const preview = await catalogue.previewLoad(db, file, undefined, progress);
-          const json = catalogue.previewJson(preview, { withObservations: false });
-          if (dryRun) return { preview: json };
-          const stored = await catalogue.storeLoad(db, auth!.user.id, preview, { note: fields.note, asOf: fields.asOf }, req.ip, progress);
-          return {
-            load: { id: stored.loadId },
-            vintages: stored.vintages,
-            unchanged: preview.series.filter((s) => s.identicalToLatest).map((s) => s.series?.code),
-            preview: { ...json, series: json.series.slice(0, 200) },
-          };
-        };
-        if (wantsStream(req)) {
-          await streamNdjson(res, async (send) => {
-            const result = await work((phase, done, total) => send({ type: 'progress', phase, done, total }));
-            send({ type: 'result', result });
-          });
-          return;
-        }
-        const result = await work();
-        res.status(dryRun ? 200 : 201).json(result);
+      handler: async ({ req, res }) => {
+        const input = loadInput(req);
+        await answerWithProgress(req, res, input.dryRun ? 200 : 201, (onProgress) => loadFile(db, { ...input, onProgress }));
       },
     },
     {
@@ -225,7 +191,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'Recent loads, newest first',
       tags: ['catalogue'],
-      handler: async () => ({ items: await catalogue.listLoads(db) }),
+      handler: async () => ({ items: await listLoads(db) }),
     },
   ];
 }

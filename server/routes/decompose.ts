@@ -2,7 +2,8 @@ import type { AppDeps } from '../deps.js';
 import { lambdaPresets, cutoffPeriod, defaultParams, gainCurve, lambdaForCutoff, METHOD_NAMES, METHODS, TWO_SIDED, type Frequency, type Method } from '../analysis/index.js';
 import type { RouteSpec } from '../lib/http.js';
 import { batchRequestSchema, decomposeRequestSchema, frequencySchema, methodSchema } from '../schemas/decompose.js';
-import { decomposeOne, preferStoredPath, resolveItems, runBatch, runStoredBatch, validateBatchSize, type RawItem } from '../services/decompose.js';
+import { batchDecompose, decomposeOne } from '../services/decompose.js';
+import type { RawItem } from '../workers/batch-types.js';
 import { paramSchemas } from '../schemas/decompose.js';
 import { z } from 'zod';
 import { badRequest } from '../lib/errors.js';
@@ -28,12 +29,8 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
       body: batchRequestSchema,
       raw: true,
       handler: async ({ body, req, res }) => {
-        validateBatchSize(body.items as never);
-        const raw = body.items as never as RawItem[];
-        const run = async (progress?: (done: number, total: number) => void) => {
-          if (preferStoredPath(raw, deps.pool)) return runStoredBatch(raw, body.output, deps.pool, deps.config.databaseUrl, progress);
-          return runBatch(await resolveItems(deps.db, raw), body.output, deps.pool, progress);
-        };
+        const ctx = { db: deps.db, pool: deps.pool, databaseUrl: deps.config.databaseUrl, cacheValues: deps.config.observationCacheValues };
+        const run = (progress?: (done: number, total: number) => void) => batchDecompose(ctx, body.items as never as RawItem[], body.output, progress);
         if (wantsStream(req)) {
           await streamNdjson(res, async (send) => {
             const strings = await run((done, total) => send({ type: 'progress', phase: 'decomposing', done, total }));

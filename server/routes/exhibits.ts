@@ -1,7 +1,7 @@
 import { z } from 'zod';
 import type { AppDeps } from '../deps.js';
-import { sendTable } from '../importers/export.js';
-import { idParam, type RouteSpec } from '../lib/http.js';
+import { idParam, sendFile, type RouteSpec } from '../lib/http.js';
+import { exhibitExport } from '../services/exports.js';
 import { createExhibitSchema, transitionSchema, updateExhibitSchema } from '../schemas/boards.js';
 import * as exhibits from '../services/exhibits.js';
 
@@ -16,8 +16,8 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
     query: z.object({ format: z.enum(['csv', 'xlsx']).default('csv') }),
     raw: true,
     handler: async ({ params, query, auth, res }) => {
-      const t = await exhibits.exhibitTable(deps, auth?.user ?? null, slug ? 0 : idParam(params.id, 'The exhibit'), slug ? z.string().max(64).parse(params.slug) : undefined);
-      await sendTable(res, { columns: t.columns, rows: t.rows, about: t.about, sheetName: 'Data' }, `exhibit-${t.exhibit.id}-r${t.exhibit.revision}`, query.format);
+      const who = slug ? { slug: z.string().max(64).parse(params.slug) } : { user: auth!.user, id: idParam(params.id, 'The exhibit') };
+      sendFile(res, await exhibitExport(deps, who, query.format));
     },
   });
   return [

@@ -1,10 +1,10 @@
 import { z } from 'zod';
 import type { AppDeps } from '../deps.js';
-import { idParam, type RouteSpec } from '../lib/http.js';
+import { idParam, sendFile, type RouteSpec } from '../lib/http.js';
 import { streamNdjson, wantsStream } from '../lib/stream.js';
 import { compareSchema, createStudySchema, studySpecSchema, updateStudySchema } from '../schemas/studies.js';
 import * as studies from '../services/studies.js';
-import { sendTable, type ExportTable } from '../importers/export.js';
+import { studyExport } from '../services/exports.js';
 
 const ECONOMIST = ['economist'] as const;
 
@@ -119,30 +119,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['studies'],
       query: z.object({ format: z.enum(['csv', 'xlsx']).default('csv') }),
       raw: true,
-      handler: async ({ params, query, res }) => {
-        const r = await studies.studyResult(db, idParam(params.id, 'The study'));
-        const table: ExportTable = {
-          columns: [
-            { header: 'period', kind: 'text' },
-            { header: `input (${r.transform === 'none' ? r.series.unit : r.transform})`, kind: 'number' },
-            { header: 'trend', kind: 'number' },
-            { header: `cycle (${r.unitOfCycle})`, kind: 'number' },
-            { header: 'method', kind: 'text' },
-            { header: 'vintage', kind: 'text' },
-          ],
-          rows: r.periods.map((p, i) => [p, r.input[i], r.trend[i], r.cycle[i], r.methodLine, r.vintageStamp]),
-          about: [
-            ['Study', r.study.title],
-            ['Series', `${r.series.code}: ${r.series.title}`],
-            ['Unit', r.series.unit],
-            ['Source', r.series.source],
-            ['Method', r.methodLine],
-            ['Vintage', r.vintageStamp],
-            ['Caution', studies.CAUTION_LINE],
-          ],
-        };
-        await sendTable(res, table, `study-${r.study.id}-${r.series.code}`, query.format);
-      },
+      handler: async ({ params, query, res }) => sendFile(res, await studyExport(db, idParam(params.id, 'The study'), query.format)),
     },
   ];
 }

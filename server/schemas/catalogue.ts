@@ -42,6 +42,7 @@ export const loadFieldsSchema = z.object({
   format: z.enum(['csv', 'sdmx-csv', 'xlsx']).optional(),
   expectChecksum: z.string().regex(/^[0-9a-f]{64}$/).optional(),
 });
+export type LoadFields = z.infer<typeof loadFieldsSchema>;
 
 /** Revisions between two vintages, as the API answers them. */
 export type RevisionStatus = 'revised' | 'new' | 'removed' | 'unchanged';
@@ -74,7 +75,7 @@ export interface FileProblem {
 }
 
 /** What a load would do to one series (the preview), as the API answers it. */
-export interface SeriesPreviewBase {
+export interface SeriesPreview {
   series: { id: number; code: string; title: string; frequency: 'A' | 'Q' | 'M'; unit: string } | null;
   key: string | null;
   rowCount: number;
@@ -90,6 +91,57 @@ export interface SeriesPreviewBase {
   problems: FileProblem[];
   errors: number;
   warnings: number;
+  /** The file's observations, in previews of small loads into one series (for the chart). */
+  observations?: { periods: string[]; values: (number | null)[] };
+}
+
+/** The preview of a load: every series in the file, checked. */
+export interface LoadPreview {
+  format: 'csv' | 'sdmx-csv' | 'xlsx';
+  filename: string;
+  series: SeriesPreview[];
+  /** Problems of the file as a whole (per-series problems are in `series`). */
+  problems: FileProblem[];
+  errors: number;
+  warnings: number;
+  observations: number;
+  canStore: boolean;
+}
+
+/** A vintage a load stored. */
+export interface StoredLoadVintage {
+  seriesId: number;
+  code: string;
+  number: number;
+  asOf: string;
+  rowCount: number;
+  checksum: string;
+}
+
+/**
+ * The answer of both load routes. A dry run answers `preview` alone. A stored load into one series
+ * (POST /series/:id/vintages) adds `vintage` and `loadId`; a stored load of many series
+ * (POST /loads) adds `load`, `vintages` and the codes of the `unchanged` series.
+ */
+export interface LoadAnswer {
+  preview: LoadPreview;
+  vintage?: { number: number; asOf: string; rowCount: number; checksum: string };
+  loadId?: number;
+  load?: { id: number };
+  vintages?: StoredLoadVintage[];
+  unchanged?: string[];
+}
+
+/** A past load, as GET /loads lists it. */
+export interface LoadSummary {
+  id: number;
+  filename: string;
+  format: string;
+  seriesCount: number;
+  observationCount: number;
+  note: string | null;
+  createdAt: string;
+  createdBy: string;
 }
 
 /** A series of the Catalogue, as the API answers it. */
@@ -119,4 +171,9 @@ export interface Vintage {
   createdAt: string;
   createdBy: { id: number; name: string } | null;
   loadId: number | null;
+}
+
+/** A series in the Catalogue's list, with its latest vintage. */
+export interface SeriesListItem extends Series {
+  latestVintage: { number: number; asOf: string; loadedAt: string; lastPeriod: string | null; rowCount: number } | null;
 }

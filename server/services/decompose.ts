@@ -1,20 +1,39 @@
 /**
- * Decompositions over HTTP: one series, or a batch (values sent, or stored series by id and
- * vintage). Large batches go to worker threads; progress can stream as NDJSON.
+ * Decompositions for the routes: one series, or a batch (values sent, or stored series by id and
+ * vintage). Large batches go to worker threads and report progress.
  */
 import { decompose, toJsonResponse, type DecomposeJson, type DecomposeRequest } from '../analysis/index.js';
+import type { Db } from '../db.js';
 import { badRequest } from '../lib/errors.js';
 import type { AnalysisPool } from '../workers/pool.js';
-import { runBatchChunk, type BatchItem } from '../workers/decompose-task.js';
+import type { BatchItem, BatchOutput, FailedItem, RawItem } from '../workers/batch-types.js';
+import { runBatchChunk } from '../workers/decompose-task.js';
+import { resolveItems } from './batch-items.js';
 
 /** One decomposition in its JSON form; an AnalysisError becomes a 400 in the error handler. */
 export function decomposeOne(request: DecomposeRequest): DecomposeJson {
   return toJsonResponse(decompose(request));
 }
 
-export type { RawItem } from './values.js';
-import { resolveItems, type RawItem } from './values.js';
-export { resolveItems };
+export interface BatchContext {
+  db: Db;
+  pool: AnalysisPool;
+  /** For worker threads that read stored series themselves. */
+  databaseUrl: string;
+  cacheValues: number;
+}
+
+/**
+ * A batch: values sent inline, or stored series by id and vintage, answered in order as one JSON
+ * string per item (an item that fails carries its error; the others still run). Large batches of
+ * stored series are read and decomposed on the worker threads; other large batches are decomposed
+ * there after the stored values are read here.
+ */
+export async function batchDecompose(ctx: BatchContext, items: RawItem[], output: BatchOutput, onProgress?: (done: number, total: number) => void): Promise<string[]> {
+  validateBatchSize(items);
+  if (preferStoredPath(items, ctx.pool)) return runStoredBatch(items, output, ctx.pool, ctx, onProgress);
+  return runBatch(await resolveItems(ctx.db, items), output, ctx.pool, onProgress);
+}
 
 const INLINE_MAX_VALUES = 200_000;
 const CHUNK_VALUES = 250_000;
@@ -24,8 +43,8 @@ const CHUNK_VALUES = 250_000;
  * ones are cut into chunks for the worker pool (all threads busy at once).
  */
 export async function runBatch(
-  items: (BatchItem | { id?: string; error: { code: string; message: string } })[],
-  output: 'full' | 'summary',
+  items: (BatchItem | FailedItem)[],
+  output: BatchOutput,
   pool: AnalysisPool | undefined,
   onProgress?: (done: number, total: number) => void,
 ): Promise<string[]> {
@@ -68,7 +87,7 @@ export async function runBatch(
   return results;
 }
 
-export function validateBatchSize(items: RawItem[]) {
+function validateBatchSize(items: RawItem[]) {
   let values = 0;
   for (const i of items) values += i.values?.length ?? 0;
   if (values > 20_000_000) throw badRequest('batch_too_large', `This batch carries ${values.toLocaleString('en-US')} values; send at most 20 000 000 per request.`);
@@ -80,12 +99,12 @@ const STORED_CHUNK = 250;
  * A large batch of stored series: each worker reads its chunk's observations from the database
  * itself, so the main thread neither parses millions of rows nor copies them to the workers.
  */
-export async function runStoredBatch(items: RawItem[], output: 'full' | 'summary', pool: AnalysisPool, databaseUrl: string, onProgress?: (done: number, total: number) => void) {
+async function runStoredBatch(items: RawItem[], output: BatchOutput, pool: AnalysisPool, db: { databaseUrl: string; cacheValues: number }, onProgress?: (done: number, total: number) => void) {
   const results: string[] = [];
   for (let i = 0; i < items.length; i += STORED_CHUNK) {
     const chunk = items.slice(i, i + STORED_CHUNK);
     const started = performance.now();
-    results.push(...(await pool.run({ kind: 'stored', databaseUrl, items: chunk, output })));
+    results.push(...(await pool.run({ kind: 'stored', databaseUrl: db.databaseUrl, cacheValues: db.cacheValues, items: chunk, output })));
     onProgress?.(Math.min(items.length, i + STORED_CHUNK), items.length);
     // Background pace: rest a third of the time the chunk took, so that the database and the
     // request thread keep room for interactive requests while a big batch runs.
@@ -95,6 +114,6 @@ export async function runStoredBatch(items: RawItem[], output: 'full' | 'summary
 }
 
 /** Stored items only, many of them, and worker threads available: the worker path pays. */
-export function preferStoredPath(items: RawItem[], pool: AnalysisPool | undefined): pool is AnalysisPool {
+function preferStoredPath(items: RawItem[], pool: AnalysisPool | undefined): pool is AnalysisPool {
   return !!pool && items.length > 200 && items.every((i) => i.seriesId !== undefined);
 }

@@ -24,7 +24,8 @@ import type { CreateExhibitBody, ExhibitState, Snapshot } from '../schemas/board
 export type { Snapshot };
 import { audit } from './audit.js';
 import { panelById, panelData, type PanelData } from './boards.js';
-import { CAUTION_LINE, computeSpec, getStudy, type StudyResult } from './studies.js';
+import { computeSpec, getStudy, type StudyResult } from './studies.js';
+import { CAUTION_LINE } from '../schemas/cautions.js';
 import { getSettings } from './settings.js';
 
 export interface ExhibitDeps {
@@ -399,35 +400,4 @@ export async function publicExhibit(deps: ExhibitDeps, slug: string) {
   if (!settings.publicExhibitLinks || !row || row.status !== 'published') throw notFound('The published exhibit');
   const revision = await latestRevision(deps.db, row.id);
   return { ...summary(row), snapshot: revision!.snapshot, snapshotChecksum: revision!.checksum, events: [] };
-}
-
-/** The data behind an exhibit (its snapshot, or a draft's live content), for CSV and XLSX. */
-export async function exhibitTable(deps: ExhibitDeps, user: PublicUser | null, id: number, slug?: string) {
-  const ex = slug ? await publicExhibit(deps, slug) : await getExhibit(deps, user!, id);
-  const snap = ex.snapshot ?? ('live' in ex ? ex.live : null);
-  if (!snap) throw conflict('no_content', 'This exhibit has no data to download yet.');
-  const periods = [...new Set(snap.lines.flatMap((l) => l.periods))].sort();
-  const maps = snap.lines.map((l) => new Map(l.periods.map((p, i) => [p, l.values[i]])));
-  return {
-    exhibit: ex,
-    snapshot: snap,
-    columns: [
-      { header: 'period', kind: 'text' as const },
-      ...snap.lines.map((l) => ({ header: snap.chartKind === 'compare' ? l.label : l.role === 'cycle' ? `cycle (${snap.text.units ?? ''})`.replace(' ()', '') : l.role, kind: 'number' as const })),
-      { header: 'vintage', kind: 'text' as const },
-      { header: 'method', kind: 'text' as const },
-    ],
-    rows: periods.map((p) => [p, ...maps.map((m) => (m.has(p) ? (m.get(p) ?? null) : null)), snap.vintageStamp, snap.methodLine]),
-    about: [
-      ['Exhibit', snap.text.title],
-      ['Subtitle', snap.text.subtitle ?? ''],
-      ['Units', snap.text.units ?? ''],
-      ['Source', snap.text.sourceLine ?? ''],
-      ['Vintage', snap.vintageStamp],
-      ['Method', snap.methodLine],
-      ['Status', `${ex.status}${snap.frozenAt ? `, frozen ${snap.frozenAt}` : ' (draft: live data)'}`],
-      ['Software', `${snap.software.name} ${snap.software.version}`],
-      ['Caution', snap.caution],
-    ] as [string, string][],
-  };
 }

@@ -1,26 +1,30 @@
-/** Downloads of stored vintages. */
+/**
+ * The one export builder: the downloads of a vintage, a study and an exhibit, each a table
+ * (importers/export.ts writes it as CSV, XLSX or SDMX-CSV) stamped with vintage and method and,
+ * for decompositions, the caution line. Routes send the file (lib/http.ts sendFile).
+ */
 import type { Db } from '../db.js';
-import { toCsv, toXlsx, type ExportTable } from '../importers/export.js';
-import { getSeries, observationsOf, resolveVintage } from './catalogue.js';
+import { buildExport, type ExportFile, type ExportTable } from '../importers/export.js';
+import { conflict } from '../lib/errors.js';
+import { CAUTION_LINE } from '../schemas/cautions.js';
+import type { PublicUser } from '../schemas/auth.js';
+import { alignByPeriod } from '../schemas/align.js';
+import { getSeries } from './catalogue/series.js';
+import { observationsOf, resolveVintage } from './catalogue/vintages.js';
+import { getExhibit, publicExhibit, type ExhibitDeps } from './exhibits.js';
+import { studyResult } from './studies.js';
 
-export type ExportFormat = 'csv' | 'xlsx' | 'sdmx-csv';
-
-export async function exportVintage(db: Db, seriesId: number, which: number | 'latest', format: ExportFormat) {
+export async function vintageExport(db: Db, seriesId: number, which: number | 'latest', format: 'csv' | 'xlsx' | 'sdmx-csv'): Promise<ExportFile> {
   const series = await getSeries(db, seriesId);
   const v = await resolveVintage(db, seriesId, which);
   const obs = await observationsOf(db, v.id);
-  const base = `${series.code}_v${v.number}`.replace(/[^A-Za-z0-9_.-]/g, '_');
+  const base = `${series.code}_v${v.number}`;
   if (format === 'sdmx-csv') {
     // SDMX-CSV: structure columns, the dimensions (FREQ and our series code), TIME_PERIOD,
     // OBS_VALUE, then attributes.
     const table: ExportTable = {
       columns: [
-        { header: 'STRUCTURE', kind: 'text' },
-        { header: 'STRUCTURE_ID', kind: 'text' },
-        { header: 'ACTION', kind: 'text' },
-        { header: 'FREQ', kind: 'text' },
-        { header: 'SERIES_CODE', kind: 'text' },
-        { header: 'TIME_PERIOD', kind: 'text' },
+        ...['STRUCTURE', 'STRUCTURE_ID', 'ACTION', 'FREQ', 'SERIES_CODE', 'TIME_PERIOD'].map((header) => ({ header, kind: 'text' as const })),
         { header: 'OBS_VALUE', kind: 'number' },
         { header: 'UNIT_MEASURE', kind: 'text' },
         { header: 'VINTAGE', kind: 'number' },
@@ -28,7 +32,7 @@ export async function exportVintage(db: Db, seriesId: number, which: number | 'l
       ],
       rows: obs.periods.map((p, i) => ['dataflow', 'TIDEGAUGE:SERIES(1.0)', 'I', series.frequency, series.code, p, obs.values[i], series.unit, v.number, v.asOf]),
     };
-    return { filename: `${base}.sdmx.csv`, contentType: 'text/csv; charset=utf-8', body: toCsv(table) };
+    return buildExport(table, base, 'csv', 'sdmx.csv');
   }
   const table: ExportTable = {
     columns: [
@@ -51,6 +55,61 @@ export async function exportVintage(db: Db, seriesId: number, which: number | 'l
       ['Exported', new Date().toISOString()],
     ],
   };
-  if (format === 'xlsx') return { filename: `${base}.xlsx`, contentType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', body: await toXlsx(table) };
-  return { filename: `${base}.csv`, contentType: 'text/csv; charset=utf-8', body: toCsv(table) };
+  return buildExport(table, base, format);
+}
+
+/** A study's numbers with the method line and the vintage stamp on every row. */
+export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx'): Promise<ExportFile> {
+  const r = await studyResult(db, studyId);
+  const table: ExportTable = {
+    columns: [
+      { header: 'period', kind: 'text' },
+      { header: `input (${r.transform === 'none' ? r.series.unit : r.transform})`, kind: 'number' },
+      { header: 'trend', kind: 'number' },
+      { header: `cycle (${r.unitOfCycle})`, kind: 'number' },
+      { header: 'method', kind: 'text' },
+      { header: 'vintage', kind: 'text' },
+    ],
+    rows: r.periods.map((p, i) => [p, r.input[i], r.trend[i], r.cycle[i], r.methodLine, r.vintageStamp]),
+    about: [
+      ['Study', r.study.title],
+      ['Series', `${r.series.code}: ${r.series.title}`],
+      ['Unit', r.series.unit],
+      ['Source', r.series.source],
+      ['Method', r.methodLine],
+      ['Vintage', r.vintageStamp],
+      ['Caution', CAUTION_LINE],
+    ],
+  };
+  return buildExport(table, `study-${r.study.id}-${r.series.code}`, format);
+}
+
+/** The data behind an exhibit (its snapshot, or a draft's live content); by id, or by public link. */
+export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; id: number } | { slug: string }, format: 'csv' | 'xlsx'): Promise<ExportFile> {
+  const ex = 'slug' in who ? await publicExhibit(deps, who.slug) : await getExhibit(deps, who.user, who.id);
+  const snap = ex.snapshot ?? ('live' in ex ? ex.live : null);
+  if (!snap) throw conflict('no_content', 'This exhibit has no data to download yet.');
+  const aligned = alignByPeriod(snap.lines);
+  const table: ExportTable = {
+    sheetName: 'Data',
+    columns: [
+      { header: 'period', kind: 'text' as const },
+      ...snap.lines.map((l) => ({ header: snap.chartKind === 'compare' ? l.label : l.role === 'cycle' ? `cycle (${snap.text.units ?? ''})`.replace(' ()', '') : l.role, kind: 'number' as const })),
+      { header: 'vintage', kind: 'text' as const },
+      { header: 'method', kind: 'text' as const },
+    ],
+    rows: aligned.periods.map((p, i) => [p, ...aligned.values.map((v) => v[i]), snap.vintageStamp, snap.methodLine]),
+    about: [
+      ['Exhibit', snap.text.title],
+      ['Subtitle', snap.text.subtitle ?? ''],
+      ['Units', snap.text.units ?? ''],
+      ['Source', snap.text.sourceLine ?? ''],
+      ['Vintage', snap.vintageStamp],
+      ['Method', snap.methodLine],
+      ['Status', `${ex.status}${snap.frozenAt ? `, frozen ${snap.frozenAt}` : ' (draft: live data)'}`],
+      ['Software', `${snap.software.name} ${snap.software.version}`],
+      ['Caution', snap.caution],
+    ],
+  };
+  return buildExport(table, `exhibit-${ex.id}-r${ex.revision}`, format);
 }

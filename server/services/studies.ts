@@ -24,18 +24,13 @@ import type { CompareBody, CreateStudyBody, Study, StudySpec } from '../schemas/
 export type { Study };
 import type { AnalysisPool } from '../workers/pool.js';
 import { audit } from './audit.js';
-import { listVintages, seriesValues } from './catalogue.js';
+import { readSeriesValues, type SeriesValues } from './catalogue/stored-values.js';
+import { listVintages } from './catalogue/vintages.js';
 import { runBatch } from './decompose.js';
-import type { BatchItem } from '../workers/decompose-task.js';
+import type { BatchItem } from '../workers/batch-types.js';
+import { CAUTIONS } from '../schemas/cautions.js';
+import { alignByPeriod } from '../schemas/align.js';
 
-
-/** The cautions of DESIGN.md, shown under every decomposition and exhibit. */
-export const CAUTIONS = [
-  'Gap estimates near the end of a sample are unreliable and are revised as new data arrive.',
-  'Two-sided filters use future data; the Hodrick–Prescott filter can produce cycles that are not in the data.',
-  'Estimates are inputs to judgement, not a basis for policy or investment decisions on their own.',
-];
-export const CAUTION_LINE = 'Caution: end-of-sample estimates are revised as data arrive; two-sided filters use future data; filters can create cycles that are not in the data. Estimates are inputs to judgement.';
 
 function toStudy(r: Record<string, any>): Study {
   return {
@@ -77,7 +72,7 @@ export async function getStudy(db: Db, id: number): Promise<Study> {
 
 /** Checks a study's specification by computing it once; returns the parameters with defaults filled. */
 export async function checkSpec(db: Db, spec: StudySpec) {
-  const data = await seriesValues(db, spec.seriesId, spec.vintage);
+  const data = await readSeriesValues(db, spec.seriesId, spec.vintage);
   const r = decompose({ frequency: data.series.frequency, start: data.start ?? undefined, values: data.values, transform: spec.transform, method: spec.method, params: spec.params });
   return { params: r.params, data, result: r };
 }
@@ -206,7 +201,7 @@ export async function computeSpec(db: Db, spec: StudySpec): Promise<StudyResult>
     vintageStamp: `data as of ${data.vintage.asOf}, vintage ${data.vintage.number}`,
     twoSided: TWO_SIDED[r.method],
     endOfSamplePeriods: TWO_SIDED[r.method] ? 2 * ppy : 0,
-    cautions: CAUTIONS,
+    cautions: [...CAUTIONS],
     unitOfCycle: cycleUnit(r.transform, data.series.unit),
   };
 }
@@ -225,14 +220,7 @@ export async function compare(db: Db, body: CompareBody) {
     const r = await computeSpec(db, item);
     results.push({ label: item.label ?? `${r.series.code} · ${r.methodLine}`, ...r });
   }
-  const all = [...new Set(results.flatMap((r) => r.periods))].sort();
-  const index = new Map(all.map((p, i) => [p, i]));
-  const align = (r: (typeof results)[number]) => {
-    const out = new Array<number | null>(all.length).fill(null);
-    r.periods.forEach((p, i) => (out[index.get(p)!] = r.cycle[i]));
-    return out;
-  };
-  const cycles = results.map(align);
+  const { periods: all, values: cycles } = alignByPeriod(results.map((r) => ({ periods: r.periods, values: r.cycle })));
   const ref = Math.min(body.reference, results.length - 1);
   const toNaN = (a: (number | null)[]) => Float64Array.from(a, (v) => (v === null ? NaN : v));
   const refCycle = toNaN(cycles[ref]);
@@ -276,8 +264,8 @@ export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, i
   const s = await getStudy(db, id);
   const vintages = (await listVintages(db, s.seriesId)).sort((a, b) => a.number - b.number);
   if (vintages.length < 2) throw conflict('too_few_vintages', 'The real-time analysis needs at least two vintages of the series.');
-  const datas: Awaited<ReturnType<typeof seriesValues>>[] = [];
-  for (const v of vintages) datas.push(await seriesValues(db, s.seriesId, v.number));
+  const datas: SeriesValues[] = [];
+  for (const v of vintages) datas.push(await readSeriesValues(db, s.seriesId, v.number));
   const latest = datas[datas.length - 1];
   const freq = latest.series.frequency;
   const item = (d: (typeof datas)[number], values: (number | null)[], id: string): BatchItem => ({ id, frequency: freq, start: d.start ?? undefined, values, transform: s.transform, method: s.method, params: s.params });

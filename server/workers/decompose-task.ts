@@ -2,20 +2,11 @@
  * The work done on a worker thread for batch decompositions: decompose a chunk of requests and
  * answer each as a ready JSON string, so the main thread only concatenates text.
  */
-import { AnalysisError, cycleStatistics, decompose, toJsonResponse, type DecomposeRequest } from '../analysis/index.js';
+import { AnalysisError, cycleStatistics, decompose, toJsonResponse } from '../analysis/index.js';
 import { createDb, type Db } from '../db.js';
-import { resolveItems, type RawItem } from '../services/values.js';
-
-export interface BatchItem extends DecomposeRequest {
-  id?: string;
-  /** Extra fields echoed into the answer (stored series: seriesId, vintage). */
-  echo?: Record<string, unknown>;
-}
-
-export interface BatchTask {
-  items: BatchItem[];
-  output: 'full' | 'summary';
-}
+import { resolveItems } from '../services/batch-items.js';
+import { configureObservationCache } from '../services/catalogue/stored-values.js';
+import type { BatchItem, BatchTask, StoredTask } from './batch-types.js';
 
 export function runBatchChunk(task: BatchTask): string[] {
   return task.items.map((item) => {
@@ -49,18 +40,13 @@ export function jsonSafe<T>(value: T): T {
   return JSON.parse(JSON.stringify(value, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)));
 }
 
-/** A chunk of stored-series items: the worker reads the observations itself, off the main thread. */
-export interface StoredTask {
-  kind: 'stored';
-  databaseUrl: string;
-  items: RawItem[];
-  output: 'full' | 'summary';
-}
-
 let workerDb: Db | null = null;
 
 export async function runStoredChunk(task: StoredTask): Promise<string[]> {
-  workerDb ??= createDb(task.databaseUrl, 2);
+  if (!workerDb) {
+    workerDb = createDb(task.databaseUrl, 2);
+    configureObservationCache(task.cacheValues);
+  }
   const resolved = await resolveItems(workerDb, task.items);
   const work = resolved.map((item, index) => ({ item, index }));
   const results: string[] = new Array(resolved.length);

@@ -5,7 +5,7 @@
 import os from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { Piscina } from 'piscina';
-import type { BatchTask, StoredTask } from './decompose-task.js';
+import type { BatchTask, StoredTask } from './batch-types.js';
 
 export interface AnalysisPool {
   run(task: BatchTask | StoredTask): Promise<string[]>;

@@ -1,4 +1,5 @@
 /** Chart options in Tidegauge's visual language (DESIGN.md), shared by every page. */
+import { alignByPeriod } from '@schemas/align';
 import { axisStyle, baseOption, COLORS, COMPARE_COLORS, fmt, FONT, HEADING_FONT, vintageColor } from './echarts';
 
 type Num = number | null;
@@ -134,18 +135,10 @@ export interface NamedLine {
   values: Num[];
 }
 
-/** Aligns named lines on the union of their periods (SDMX periods of one frequency sort as text). */
-export function alignLines(lines: NamedLine[]) {
-  const all = [...new Set(lines.flatMap((l) => l.periods))].sort();
-  const index = new Map(all.map((p, i) => [p, i]));
-  return {
-    periods: all,
-    series: lines.map((l) => {
-      const out = new Array<Num>(all.length).fill(null);
-      l.periods.forEach((p, i) => (out[index.get(p)!] = l.values[i]));
-      return { name: l.name, values: out };
-    }),
-  };
+/** Aligns named lines on the union of their periods (server/schemas/align.ts). */
+function alignLines(lines: NamedLine[]) {
+  const { periods, values } = alignByPeriod(lines);
+  return { periods, series: lines.map((l, k) => ({ name: l.name, values: values[k] })) };
 }
 
 export function vintagesChart(opts: { lines: NamedLine[]; unit?: string }) {

@@ -1,26 +1,9 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { CreateSeriesBody, FileProblem, RevisionRow, RevisionSummary, Series, SeriesPreviewBase, Vintage } from '@schemas/catalogue';
+import type { CreateSeriesBody, FileProblem, LoadPreview, LoadSummary, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage } from '@schemas/catalogue';
 
-export type { RevisionRow, RevisionSummary, Series, Vintage };
-
-export interface SeriesListItem extends Series {
-  latestVintage: { number: number; asOf: string; loadedAt: string; lastPeriod: string | null; rowCount: number } | null;
-}
+export type { LoadPreview, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage };
 export type Problem = FileProblem;
-export interface SeriesPreview extends SeriesPreviewBase {
-  observations?: { periods: string[]; values: (number | null)[] };
-}
-export interface LoadPreview {
-  format: string;
-  filename: string;
-  series: SeriesPreview[];
-  problems: Problem[];
-  errors: number;
-  warnings: number;
-  observations: number;
-  canStore: boolean;
-}
 
 export const useSeriesList = () => useQuery({ queryKey: ['series'], queryFn: () => api<{ items: SeriesListItem[] }>('/series').then((r) => r.items) });
 export const useSeries = (id: number) => useQuery({ queryKey: ['series', id], queryFn: () => api<Series & { vintageCount: number; latestVintage: Vintage | null }>(`/series/${id}`) });
@@ -43,7 +26,7 @@ export const useTriangle = (id: number, enabled: boolean) =>
     queryFn: () => api<{ vintages: { number: number; asOf: string }[]; periods: string[]; values: (number | null)[][] }>(`/series/${id}/revisions/triangle`),
     enabled,
   });
-export const useLoads = () => useQuery({ queryKey: ['loads'], queryFn: () => api<{ items: { id: number; filename: string; format: string; seriesCount: number; observationCount: number; note: string | null; createdAt: string; createdBy: string }[] }>('/loads').then((r) => r.items) });
+export const useLoads = () => useQuery({ queryKey: ['loads'], queryFn: () => api<{ items: LoadSummary[] }>('/loads').then((r) => r.items) });
 
 export function useSaveSeries(id?: number) {
   const qc = useQueryClient();

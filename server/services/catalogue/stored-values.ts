@@ -1,74 +1,43 @@
 /**
- * Reading stored observations for decomposition: one series, or thousands at once. Kept apart
- * from the Catalogue service so that worker threads can load it without the rest.
+ * The one read path for stored values to decompose: a vintage as a contiguous array from its
+ * first to its last period (missing periods are null), for one series or thousands at once, in a
+ * handful of queries, through a cache of immutable vintages. Worker threads load this module on
+ * its own (it imports nothing of the rest of the Catalogue but the row mappers).
  */
-import type { Frequency } from '../analysis/frequency.js';
-import { formatPeriod, periodIndex } from '../analysis/periods.js';
-import { fastQuery, type Db } from '../db.js';
-import { HttpError, notFound } from '../lib/errors.js';
-import type { SeriesRow, VintageInfo } from './catalogue.js';
-import type { BatchItem } from '../workers/decompose-task.js';
+import { formatPeriod, periodIndex } from '../../analysis/periods.js';
+import { fastQuery, type Db } from '../../db.js';
+import { HttpError, notFound } from '../../lib/errors.js';
+import type { Series, Vintage } from '../../schemas/catalogue.js';
+import type { Frequency } from '../../analysis/frequency.js';
+import { toSeries, toVintage } from './rows.js';
+import { vintageWhat } from './vintages.js';
 
 export interface SeriesValues {
-  series: SeriesRow;
-  vintage: VintageInfo & { id: number };
+  series: Series;
+  vintage: Vintage & { id: number };
   start: string | null;
   periods: string[];
   values: (number | null)[];
 }
 
-export const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
-export const dateOnly = (d: Date | string) => (d instanceof Date ? d.toISOString().slice(0, 10) : String(d).slice(0, 10));
-
-export function toSeries(r: Record<string, any>): SeriesRow {
-  return {
-    id: r.id,
-    code: r.code,
-    title: r.title,
-    frequency: r.frequency,
-    unit: r.unit,
-    seasonalAdjustment: r.seasonal_adjustment,
-    source: r.source,
-    notes: r.notes,
-    sdmxKey: r.sdmx_key,
-    createdAt: iso(r.created_at)!,
-    updatedAt: iso(r.updated_at)!,
-  };
+export interface ValuesRef {
+  seriesId: number;
+  vintage: number | 'latest';
 }
 
-export function toVintage(r: Record<string, any>): VintageInfo {
-  return {
-    number: r.number,
-    asOf: dateOnly(r.as_of),
-    note: r.note,
-    rowCount: r.row_count,
-    checksum: r.checksum,
-    firstPeriod: r.first_period,
-    lastPeriod: r.last_period,
-    createdAt: iso(r.created_at)!,
-    createdBy: r.created_by ? { id: r.created_by, name: r.creator_name ?? '' } : null,
-    loadId: r.load_id ?? null,
-  };
-}
-
+type Contiguous = Pick<SeriesValues, 'start' | 'periods' | 'values'>;
 
 /** Observations as a contiguous array from the first to the last period (missing periods are null). */
-export function contiguous(obs: { periods: string[]; values: (number | null)[] }, frequency: Frequency) {
-  if (obs.periods.length === 0) return { start: null as string | null, periods: [] as string[], values: [] as (number | null)[] };
+export function contiguous(obs: { periods: string[]; values: (number | null)[] }, frequency: Frequency): Contiguous {
+  if (obs.periods.length === 0) return { start: null, periods: [], values: [] };
   const first = periodIndex(obs.periods[0], frequency)!;
   const last = periodIndex(obs.periods[obs.periods.length - 1], frequency)!;
   const values = new Array<number | null>(last - first + 1).fill(null);
   obs.periods.forEach((p, i) => (values[periodIndex(p, frequency)! - first] = obs.values[i]));
   const periods = values.map((_, i) => formatPeriod(first + i, frequency));
-  return { start: obs.periods[0] as string | null, periods, values };
+  return { start: obs.periods[0], periods, values };
 }
 
-
-/**
- * seriesValues for many (series, vintage) pairs at once, in a handful of queries: what a batch of
- * thousands of stored series needs. Returns, per "id@vintage" key, the values or the error a single
- * lookup would have given.
- */
 /**
  * A least-recently-used cache of the contiguous observations of vintages, by vintage id. Safe
  * across server instances because a stored vintage never changes; bounded by the number of values.
@@ -78,8 +47,8 @@ class ObservationCache {
   // arrays live outside the garbage-collected heap, so a full cache costs the collector nothing.
   private map = new Map<number, { start: string | null; frequency: Frequency; values: Float64Array }>();
   private size = 0;
-  constructor(private readonly maxValues: number) {}
-  get(id: number): ReturnType<typeof contiguous> | undefined {
+  constructor(public maxValues: number) {}
+  get(id: number): Contiguous | undefined {
     const v = this.map.get(id);
     if (!v) return undefined;
     this.map.delete(id);
@@ -88,7 +57,7 @@ class ObservationCache {
     const i0 = v.start === null ? 0 : periodIndex(v.start, v.frequency)!;
     return { start: v.start, values, periods: values.map((_, i) => formatPeriod(i0 + i, v.frequency)) };
   }
-  set(id: number, v: ReturnType<typeof contiguous>, frequency: Frequency) {
+  set(id: number, v: Contiguous, frequency: Frequency) {
     if (v.values.length > this.maxValues / 10 || this.map.has(id)) return;
     this.map.set(id, { start: v.start, frequency, values: Float64Array.from(v.values, (x) => (x === null ? NaN : x)) });
     this.size += v.values.length;
@@ -99,12 +68,21 @@ class ObservationCache {
     }
   }
 }
-const observationCache = new ObservationCache(Number(process.env.OBSERVATION_CACHE_VALUES || 2_000_000));
+const observationCache = new ObservationCache(2_000_000);
 
-export async function manySeriesValues(db: Db, refs: { seriesId: number; vintage: number | 'latest' }[]): Promise<Map<string, SeriesValues | HttpError>> {
+/** Sets the cache's bound in values (config.observationCacheValues; 0 turns it off). */
+export function configureObservationCache(maxValues: number) {
+  observationCache.maxValues = maxValues;
+}
+
+/**
+ * Values for many (series, vintage) pairs at once. Returns, per "id@vintage" key, the values or
+ * the 404 a single lookup gives.
+ */
+export async function readStoredValues(db: Db, refs: ValuesRef[]): Promise<Map<string, SeriesValues | HttpError>> {
   const out = new Map<string, SeriesValues | HttpError>();
   const ids = [...new Set(refs.map((r) => r.seriesId))];
-  const series = new Map<number, SeriesRow>();
+  const series = new Map<number, Series>();
   const vintagesBySeries = new Map<number, Record<string, any>[]>();
   for (let i = 0; i < ids.length; i += 1000) {
     const chunk = ids.slice(i, i + 1000);
@@ -125,19 +103,19 @@ export async function manySeriesValues(db: Db, refs: { seriesId: number; vintage
       (vintagesBySeries.get(r.id) ?? vintagesBySeries.set(r.id, []).get(r.id)!).push(v);
     }
   }
-  const wanted = new Map<number, { key: string; series: SeriesRow; vintage: Record<string, any> }[]>();
+  const wanted = new Map<number, { key: string; series: Series; vintage: Record<string, any> }[]>();
   for (const r of refs) {
     const key = `${r.seriesId}@${r.vintage}`;
     if (out.has(key)) continue;
     const s = series.get(r.seriesId);
     if (!s) {
-      out.set(key, notFound('The series') as HttpError);
+      out.set(key, notFound('The series'));
       continue;
     }
     const list = vintagesBySeries.get(r.seriesId) ?? [];
     const v = r.vintage === 'latest' ? list.reduce<Record<string, any> | undefined>((a, b) => (!a || b.number > a.number ? b : a), undefined) : list.find((x) => x.number === r.vintage);
     if (!v) {
-      out.set(key, notFound(r.vintage === 'latest' ? 'A vintage of this series (none is loaded yet)' : `Vintage ${r.vintage} of this series`) as HttpError);
+      out.set(key, notFound(vintageWhat(r.vintage)));
       continue;
     }
     const entry = wanted.get(v.id) ?? wanted.set(v.id, []).get(v.id)!;
@@ -171,27 +149,9 @@ export async function manySeriesValues(db: Db, refs: { seriesId: number; vintage
   return out;
 }
 
-
-export type RawItem = { id?: string; seriesId?: number; vintage?: number | 'latest'; frequency?: string; start?: string; values?: unknown[]; transform?: string; method: string; params?: Record<string, unknown> };
-
-/** Turns stored-series items into value arrays (a few queries for the whole batch). */
-export async function resolveItems(db: Db, items: RawItem[]): Promise<(BatchItem | { id?: string; error: { code: string; message: string } })[]> {
-  const stored = items.filter((i) => i.seriesId !== undefined).map((i) => ({ seriesId: i.seriesId!, vintage: i.vintage ?? ('latest' as const) }));
-  const found = stored.length ? await manySeriesValues(db, stored) : new Map();
-  return items.map((item) => {
-    if (item.seriesId === undefined) return item as unknown as BatchItem;
-    const data = found.get(`${item.seriesId}@${item.vintage ?? 'latest'}`);
-    if (!data || data instanceof HttpError) return { id: item.id, error: { code: data?.code ?? 'not_found', message: data?.message ?? 'The series was not found.' } };
-    return {
-      id: item.id,
-      frequency: data.series.frequency,
-      start: data.start ?? undefined,
-      values: data.values,
-      transform: item.transform as BatchItem['transform'],
-      method: item.method as BatchItem['method'],
-      params: item.params,
-      echo: { seriesId: item.seriesId, vintage: data.vintage.number },
-    };
-  });
+/** One series' values (its number or "latest"); throws the 404 when the series or vintage is missing. */
+export async function readSeriesValues(db: Db, seriesId: number, which: number | 'latest'): Promise<SeriesValues> {
+  const found = (await readStoredValues(db, [{ seriesId, vintage: which }])).get(`${seriesId}@${which}`)!;
+  if (found instanceof HttpError) throw found;
+  return found;
 }
-

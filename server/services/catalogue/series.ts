@@ -1,0 +1,97 @@
+/** Series of the Catalogue: their metadata, listed, read, defined, corrected and deleted. */
+import type { Knex } from 'knex';
+import type { Db } from '../../db.js';
+import { conflict, notFound } from '../../lib/errors.js';
+import type { CreateSeriesBody, Series, SeriesListItem } from '../../schemas/catalogue.js';
+import { audit } from '../audit.js';
+import { dateOnly, iso, toSeries } from './rows.js';
+
+export async function listSeries(db: Db, filter: { q?: string; frequency?: string; unit?: string } = {}): Promise<SeriesListItem[]> {
+  // The latest vintage through the (series_id, number) unique index: no scan of all vintages.
+  const q = db('series as s')
+    .leftJoin('vintages as v', function () {
+      this.on('v.series_id', '=', 's.id').andOn('v.number', '=', db.raw('(SELECT MAX(v2.number) FROM vintages v2 WHERE v2.series_id = s.id)'));
+    })
+    .select('s.*', 'v.number as v_number', 'v.as_of as v_as_of', 'v.created_at as v_created_at', 'v.last_period as v_last_period', 'v.row_count as v_rows')
+    .orderBy('s.code');
+  if (filter.q) q.where((w) => w.whereILike('s.code', `%${filter.q}%`).orWhereILike('s.title', `%${filter.q}%`));
+  if (filter.frequency) q.where('s.frequency', filter.frequency);
+  if (filter.unit) q.where('s.unit', filter.unit);
+  const rows = await q;
+  return rows.map((r) => ({
+    ...toSeries(r),
+    latestVintage: r.v_number ? { number: r.v_number, asOf: dateOnly(r.v_as_of), loadedAt: iso(r.v_created_at)!, lastPeriod: r.v_last_period, rowCount: r.v_rows } : null,
+  }));
+}
+
+export async function getSeries(db: Db | Knex.Transaction, id: number): Promise<Series> {
+  const row = await db('series').where('id', id).first();
+  if (!row) throw notFound('The series');
+  return toSeries(row);
+}
+
+export async function createSeries(db: Db, actorId: number, body: CreateSeriesBody, ip?: string) {
+  try {
+    const id = await db.transaction(async (trx) => {
+      const [newId] = await trx('series').insert({
+        code: body.code,
+        title: body.title,
+        frequency: body.frequency,
+        unit: body.unit,
+        seasonal_adjustment: body.seasonalAdjustment,
+        source: body.source ?? '',
+        notes: body.notes ?? null,
+        sdmx_key: body.sdmxKey || null,
+        created_by: actorId,
+      });
+      await audit(trx, { actorId, action: 'series.create', targetType: 'series', targetId: newId, details: { code: body.code }, ip });
+      return newId;
+    });
+    return getSeries(db, id);
+  } catch (error) {
+    if ((error as { code?: string }).code === 'ER_DUP_ENTRY') {
+      const what = String((error as Error).message).includes('sdmx_key') ? `the SDMX key ${body.sdmxKey}` : `the code ${body.code}`;
+      throw conflict('duplicate_code', `A series with ${what} already exists; choose another.`);
+    }
+    throw error;
+  }
+}
+
+export async function updateSeries(db: Db, actorId: number, id: number, body: Partial<CreateSeriesBody>, ip?: string) {
+  const before = await getSeries(db, id);
+  if (body.frequency && body.frequency !== before.frequency) {
+    const [{ n }] = await db('vintages').where('series_id', id).count({ n: '*' });
+    if (Number(n) > 0) throw conflict('frequency_locked', 'The frequency cannot change once a vintage is stored: its periods are written in that frequency. Create a new series instead.');
+  }
+  const change: Record<string, unknown> = {};
+  if (body.code !== undefined) change.code = body.code;
+  if (body.title !== undefined) change.title = body.title;
+  if (body.frequency !== undefined) change.frequency = body.frequency;
+  if (body.unit !== undefined) change.unit = body.unit;
+  if (body.seasonalAdjustment !== undefined) change.seasonal_adjustment = body.seasonalAdjustment;
+  if (body.source !== undefined) change.source = body.source;
+  if (body.notes !== undefined) change.notes = body.notes;
+  if (body.sdmxKey !== undefined) change.sdmx_key = body.sdmxKey || null;
+  try {
+    await db.transaction(async (trx) => {
+      await trx('series').where('id', id).update({ ...change, updated_at: new Date() });
+      await audit(trx, { actorId, action: 'series.update', targetType: 'series', targetId: id, details: { fields: Object.keys(change) }, ip });
+    });
+  } catch (error) {
+    if ((error as { code?: string }).code === 'ER_DUP_ENTRY') throw conflict('duplicate_code', 'Another series already has this code or SDMX key.');
+    throw error;
+  }
+  return getSeries(db, id);
+}
+
+export async function deleteSeries(db: Db, actorId: number, id: number, ip?: string) {
+  await getSeries(db, id);
+  const [{ n }] = await db('vintages').where('series_id', id).count({ n: '*' });
+  if (Number(n) > 0) throw conflict('series_has_vintages', 'A series with stored vintages cannot be deleted: its releases are kept for good.');
+  const [{ s }] = await db('studies').where('series_id', id).count({ s: '*' });
+  if (Number(s) > 0) throw conflict('series_in_use', 'Studies use this series; it cannot be deleted.');
+  await db.transaction(async (trx) => {
+    await trx('series').where('id', id).delete();
+    await audit(trx, { actorId, action: 'series.delete', targetType: 'series', targetId: id, ip });
+  });
+}

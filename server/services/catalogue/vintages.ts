@@ -1,0 +1,50 @@
+/** Vintages (immutable releases of a series) and their observations as stored. */
+import type { Knex } from 'knex';
+import type { Db } from '../../db.js';
+import { badRequest, notFound } from '../../lib/errors.js';
+import { sha256 } from '../../lib/secrets.js';
+import type { Vintage } from '../../schemas/catalogue.js';
+import { toVintage } from './rows.js';
+import { getSeries } from './series.js';
+
+/** A vintage with its database id, for the queries that follow. */
+export type StoredVintage = Vintage & { id: number };
+
+export async function listVintages(db: Db, seriesId: number): Promise<Vintage[]> {
+  await getSeries(db, seriesId);
+  const rows = await db('vintages as v').leftJoin('users as u', 'u.id', 'v.created_by').where('v.series_id', seriesId).orderBy('v.number', 'desc').select('v.*', 'u.name as creator_name');
+  return rows.map(toVintage);
+}
+
+/** A vintage by its number or "latest"; 404 when the series or the vintage does not exist. */
+export async function resolveVintage(db: Db | Knex.Transaction, seriesId: number, which: number | 'latest' | string): Promise<StoredVintage> {
+  const q = db('vintages as v').leftJoin('users as u', 'u.id', 'v.created_by').where('v.series_id', seriesId).select('v.*', 'u.name as creator_name');
+  if (which === 'latest') q.orderBy('v.number', 'desc');
+  else {
+    const n = Number(which);
+    if (!Number.isInteger(n) || n < 1) throw badRequest('invalid_vintage', 'A vintage is a number (1, 2, …) or "latest".');
+    q.where('v.number', n);
+  }
+  const row = await q.first();
+  if (!row) {
+    await getSeries(db, seriesId);
+    throw notFound(vintageWhat(which));
+  }
+  return { ...toVintage(row), id: row.id };
+}
+
+/** The words of the 404 for a missing vintage (shared with the stored-values read path). */
+export const vintageWhat = (which: number | 'latest' | string) => (which === 'latest' ? 'A vintage of this series (none is loaded yet)' : `Vintage ${which} of this series`);
+
+/** The stored rows of a vintage, sorted by period (missing values are null). */
+export async function observationsOf(db: Db | Knex.Transaction, vintageId: number): Promise<{ periods: string[]; values: (number | null)[] }> {
+  const rows = await db('observations').where('vintage_id', vintageId).orderBy('period').select('period', 'value');
+  return { periods: rows.map((r) => r.period), values: rows.map((r) => (r.value === null ? null : Number(r.value))) };
+}
+
+/** sha256 of the canonical observations ("period,value" lines): a vintage's checksum. */
+export function checksumOf(periods: string[], values: (number | null)[]): string {
+  let text = '';
+  for (let i = 0; i < periods.length; i++) text += `${periods[i]},${values[i] === null ? '' : String(values[i])}\n`;
+  return sha256(text);
+}
