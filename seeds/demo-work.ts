@@ -7,7 +7,8 @@ import type { Db } from '../server/db.js';
 import type { Mailer } from '../server/mail/mailer.js';
 import { loadUser } from '../server/services/accounts.js';
 import { addPanel, createBoard } from '../server/services/boards.js';
-import { createExhibit, transition } from '../server/services/exhibits.js';
+import { createExhibit } from '../server/services/exhibits/drafts.js';
+import { transition } from '../server/services/exhibits/review.js';
 import { createStudy } from '../server/services/studies.js';
 
 export async function seedDemoWork(db: Db, people: Record<string, number>, config: Config) {

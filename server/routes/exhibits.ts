@@ -1,9 +1,12 @@
 import { z } from 'zod';
 import type { AppDeps } from '../deps.js';
 import { idParam, sendFile, type RouteSpec } from '../lib/http.js';
+import { createExhibitSchema, transitionSchema, updateExhibitSchema } from '../schemas/exhibits.js';
+import { exhibitDiff } from '../services/exhibits/diff.js';
+import { createExhibit, deleteExhibit, updateExhibit } from '../services/exhibits/drafts.js';
+import { getExhibit, listExhibits, publicExhibit } from '../services/exhibits/read.js';
+import { reviewQueue, transition } from '../services/exhibits/review.js';
 import { exhibitExport } from '../services/exports.js';
-import { createExhibitSchema, transitionSchema, updateExhibitSchema } from '../schemas/boards.js';
-import * as exhibits from '../services/exhibits.js';
 
 export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
   const { db } = deps;
@@ -28,7 +31,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Exhibits the user may see (readers: published ones), newest first',
       tags: ['exhibits'],
       query: z.object({ status: z.string().max(16).optional(), mine: z.string().optional() }),
-      handler: async ({ query, auth }) => ({ items: await exhibits.listExhibits(db, auth!.user, { status: query.status, mine: query.mine === '1' }) }),
+      handler: async ({ query, auth }) => ({ items: await listExhibits(db, auth!.user, { status: query.status, mine: query.mine === '1' }) }),
     },
     {
       method: 'post',
@@ -38,7 +41,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['exhibits'],
       body: createExhibitSchema,
       status: 201,
-      handler: ({ body, auth, req }) => exhibits.createExhibit(deps, auth!.user, body, req.ip),
+      handler: ({ body, auth, req }) => createExhibit(deps, auth!.user, body, req.ip),
     },
     {
       method: 'get',
@@ -46,7 +49,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'An exhibit with its status, snapshot (once submitted) and events',
       tags: ['exhibits'],
-      handler: ({ params, auth }) => exhibits.getExhibit(deps, auth!.user, idParam(params.id, 'The exhibit')),
+      handler: ({ params, auth }) => getExhibit(deps, auth!.user, idParam(params.id, 'The exhibit')),
     },
     {
       method: 'patch',
@@ -55,7 +58,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Edit one’s own draft or returned exhibit (409 once approved or published)',
       tags: ['exhibits'],
       body: updateExhibitSchema,
-      handler: ({ params, body, auth }) => exhibits.updateExhibit(deps, auth!.user, idParam(params.id, 'The exhibit'), body),
+      handler: ({ params, body, auth }) => updateExhibit(deps, auth!.user, idParam(params.id, 'The exhibit'), body),
     },
     {
       method: 'delete',
@@ -63,7 +66,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       access: ['economist'],
       summary: 'Delete one’s own draft',
       tags: ['exhibits'],
-      handler: ({ params, auth }) => exhibits.deleteExhibit(deps, auth!.user, idParam(params.id, 'The exhibit')),
+      handler: ({ params, auth }) => deleteExhibit(deps, auth!.user, idParam(params.id, 'The exhibit')),
     },
     {
       method: 'post',
@@ -72,7 +75,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Move an exhibit: submit (in_review), return (comment), approve, publish, withdraw (reason)',
       tags: ['exhibits'],
       body: transitionSchema,
-      handler: ({ params, body, auth, req }) => exhibits.transition(deps, auth!.user, idParam(params.id, 'The exhibit'), body.to, body.comment || undefined, req.ip),
+      handler: ({ params, body, auth, req }) => transition(deps, auth!.user, idParam(params.id, 'The exhibit'), body.to, body.comment || undefined, req.ip),
     },
     {
       method: 'get',
@@ -80,7 +83,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'What changed between the latest revision and the one before (data, parameters, text)',
       tags: ['exhibits'],
-      handler: ({ params, auth }) => exhibits.exhibitDiff(deps, auth!.user, idParam(params.id, 'The exhibit')),
+      handler: ({ params, auth }) => exhibitDiff(deps, auth!.user, idParam(params.id, 'The exhibit')),
     },
     download(false),
     {
@@ -89,7 +92,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       access: ['editor'],
       summary: 'The Review desk: exhibits in review, oldest first',
       tags: ['exhibits'],
-      handler: async ({ auth }) => ({ items: await exhibits.reviewQueue(deps, auth!.user) }),
+      handler: async ({ auth }) => ({ items: await reviewQueue(deps, auth!.user) }),
     },
     {
       method: 'get',
@@ -97,7 +100,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       access: 'public',
       summary: 'A published exhibit by its public link, when an administrator allows public links',
       tags: ['exhibits'],
-      handler: ({ params }) => exhibits.publicExhibit(deps, z.string().max(64).parse(params.slug)),
+      handler: ({ params }) => publicExhibit(deps, z.string().max(64).parse(params.slug)),
     },
     download(true),
   ];

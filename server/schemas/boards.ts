@@ -1,8 +1,12 @@
-/** Bodies of the Boards and Exhibits routes, shared with the client forms. */
+/** Boards and their panels: the bodies of the Boards routes and what they answer (shared with the client). */
 import { z } from 'zod';
+import type { Study, StudyResult } from './studies.js';
 
-const title = z.string({ error: 'Give it a title.' }).trim().min(1, 'Give it a title.').max(200, 'A title has at most 200 characters.');
-const notes = z.string().max(5000, 'Notes have at most 5000 characters.');
+/** A title and notes, as boards, panels and exhibits take them. */
+export const titleSchema = z.string({ error: 'Give it a title.' }).trim().min(1, 'Give it a title.').max(200, 'A title has at most 200 characters.');
+export const notesSchema = z.string().max(5000, 'Notes have at most 5000 characters.');
+const title = titleSchema;
+const notes = notesSchema;
 
 export const createBoardSchema = z.object({
   title,
@@ -38,45 +42,6 @@ export const updatePanelSchema = z.object({
 });
 export const reorderSchema = z.object({ panelIds: z.array(z.number().int().positive()).min(1) });
 
-export const EXHIBIT_STATES = ['draft', 'in_review', 'returned', 'approved', 'published', 'withdrawn'] as const;
-export type ExhibitState = (typeof EXHIBIT_STATES)[number];
-
-const exhibitText = {
-  title,
-  subtitle: z.string().trim().max(300, 'A subtitle has at most 300 characters.').optional(),
-  notes: notes.optional(),
-  units: z.string().trim().max(120, 'Units have at most 120 characters.').optional(),
-  sourceLine: z.string().trim().max(300, 'The source line has at most 300 characters.').optional(),
-  chartKind: z.enum(['cycle', 'trend']).optional(),
-};
-export const createExhibitSchema = z
-  .object({ studyId: z.number().int().positive().optional(), panelId: z.number().int().positive().optional(), ...exhibitText })
-  .refine((v) => (v.studyId === undefined) !== (v.panelId === undefined), { message: 'Draft an exhibit from one study or one panel.', path: ['studyId'] });
-export type CreateExhibitBody = z.infer<typeof createExhibitSchema>;
-export const updateExhibitSchema = z.object({ ...exhibitText, title: title.optional() }).refine((v) => Object.keys(v).length > 0, 'Send at least one field.');
-export const transitionSchema = z.object({
-  to: z.enum(EXHIBIT_STATES, { error: `"to" is one of ${EXHIBIT_STATES.join(', ')}.` }),
-  comment: z.string().trim().max(5000, 'A comment has at most 5000 characters.').optional(),
-});
-
-/** What an exhibit freezes when it is submitted, and renders from afterwards (server and client). */
-export interface Snapshot {
-  schema: 1;
-  kind: 'study' | 'panel';
-  chartKind: 'cycle' | 'trend' | 'compare';
-  text: { title: string; subtitle: string | null; units: string | null; sourceLine: string | null; notes: string | null };
-  series: { id: number; code: string; title: string; unit: string; source: string }[];
-  lines: { label: string; role: 'input' | 'trend' | 'cycle'; periods: string[]; values: (number | null)[] }[];
-  studies: { id: number; title: string; method: string; params: Record<string, unknown>; transform: string; vintage: number; asOf: string; vintageChecksum: string; methodLine: string }[];
-  turningPoints?: { period: string; type: 'peak' | 'trough' }[];
-  endOfSamplePeriods: number;
-  methodLine: string;
-  vintageStamp: string;
-  caution: string;
-  software: { name: string; version: string };
-  frozenAt: string | null;
-}
-
 export interface Board {
   id: number;
   title: string;
@@ -101,4 +66,21 @@ export interface Panel {
   compareBy: 'methods' | 'series' | 'vintages' | null;
   vintages: number[] | null;
   updatedAt: string;
+}
+
+/** What a panel shows, computed from the current data, with the vintages it uses. */
+export interface PanelData {
+  panelId: number;
+  kind: 'study' | 'compare';
+  compareBy: Panel['compareBy'];
+  lines: { label: string; studyId: number; periods: string[]; values: (number | null)[]; vintage: number; methodLine: string }[];
+  /** The single study's full result (kind "study"). */
+  result?: StudyResult;
+  unit: string;
+  methodLines: string[];
+  vintageStamps: string[];
+  series: { id: number; code: string; title: string; unit: string; source: string }[];
+  studies: Study[];
+  /** For studies that follow "latest": the newest vintage and when it was loaded. */
+  freshness: { studyId: number; code: string; vintage: number; asOf: string; loadedAt: string; newSincePanel: boolean }[];
 }

@@ -64,3 +64,16 @@ export const batchRequestSchema = z.object({
   /** `summary` answers only the last values and cycle statistics, for very large batches. */
   output: z.enum(['full', 'summary']).default('full'),
 });
+
+/** One item of a batch answered with `output: "summary"`: the last values and the cycle statistics. */
+export interface BatchSummaryItem {
+  id?: string;
+  seriesId?: number;
+  vintage?: number;
+  method: string;
+  params: Record<string, unknown>;
+  transform: string;
+  last: { period: string | null; index: number; trend: number; cycle: number } | null;
+  statistics: Record<string, number | null>;
+  warnings: string[];
+}

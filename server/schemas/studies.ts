@@ -48,3 +48,70 @@ export interface Study {
   createdAt: string;
   updatedAt: string;
 }
+
+/** A study's decomposition as POST /studies/preview and GET /studies/:id/result answer it (the latter adds `study`). */
+export interface StudyResult {
+  method: Method;
+  params: Record<string, unknown>;
+  transform: 'none' | 'log' | 'log100';
+  frequency: 'A' | 'Q' | 'M';
+  periods: string[];
+  input: (number | null)[];
+  trend: (number | null)[];
+  cycle: (number | null)[];
+  warnings: string[];
+  diagnostics: Record<string, unknown>;
+  vintage: number;
+  asOf: string;
+  vintagePin: number | 'latest';
+  series: { id: number; code: string; title: string; unit: string; frequency: 'A' | 'Q' | 'M'; source: string };
+  statistics: Record<string, number | null>;
+  turningPoints: { index: number; period: string; type: 'peak' | 'trough'; value: number }[];
+  gain: { periods: number[]; gain: number[]; cutoff: number | null; band?: [number, number]; note?: string };
+  methodLine: string;
+  vintageStamp: string;
+  twoSided: boolean;
+  /** Periods at the end of a two-sided estimate that will be revised (two years). */
+  endOfSamplePeriods: number;
+  cautions: string[];
+  unitOfCycle: string;
+}
+
+/** POST /studies/compare: cycles on aligned periods, with statistics and cross-correlations against the reference. */
+export interface CompareResult {
+  periods: string[];
+  reference: number;
+  mixedFrequencies: boolean;
+  items: {
+    label: string;
+    seriesId: number;
+    code: string;
+    method: Method;
+    params: Record<string, unknown>;
+    transform: string;
+    vintage: number;
+    methodLine: string;
+    vintageStamp: string;
+    unitOfCycle: string;
+    cycle: (number | null)[];
+    statistics: Record<string, number | null>;
+    crossCorrelations: { lag: number; r: number | null; n: number }[];
+  }[];
+}
+
+/** POST /studies/:id/realtime: real-time against final estimates, and the quasi-real-time variant. */
+export interface RealtimeResult {
+  study: { id: number; title: string; method: Method; params: Record<string, unknown>; transform: string };
+  series: { id: number; code: string; unit: string; frequency: 'A' | 'Q' | 'M' };
+  unitOfCycle: string;
+  methodLine: string;
+  finalVintage: number;
+  fan: { vintage: number; asOf: string; periods: string[]; cycle: (number | null)[] }[];
+  final: { vintage: number; periods: string[]; cycle: (number | null)[] };
+  realTime: { vintage: number; asOf: string; period: string | null; value: number | null; final: number | null }[];
+  quasiRealTime: { period: string; value: number | null; final: number | null }[];
+  statistics: Record<'realTime' | 'quasiRealTime' | 'dataRevisions', Record<string, number | null>>;
+  note: string | null;
+  /** The plural word for the frequency's periods ("quarters"). */
+  word: string;
+}

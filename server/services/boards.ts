@@ -7,11 +7,9 @@ import type { Knex } from 'knex';
 import type { Db } from '../db.js';
 import { conflict, forbidden, notFound } from '../lib/errors.js';
 import type { PublicUser } from '../schemas/auth.js';
-import type { Board, Panel, PanelBody } from '../schemas/boards.js';
-export type { Board, Panel };
-import { computeSpec, getStudy, type Study, type StudyResult } from './studies.js';
-
-
+import type { Board, Panel, PanelBody, PanelData } from '../schemas/boards.js';
+export type { Board, Panel, PanelData };
+import { computeSpec, getStudy, type StudyResult } from './studies.js';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
 
@@ -160,34 +158,9 @@ export async function reorderPanels(db: Db, user: PublicUser, boardId: number, p
 
 // ------------------------------------------------------------------ panel data
 
-export interface PanelLine {
-  label: string;
-  studyId: number;
-  periods: string[];
-  values: (number | null)[];
-  vintage: number;
-  methodLine: string;
-}
-
-export interface PanelData {
-  panelId: number;
-  kind: 'study' | 'compare';
-  compareBy: Panel['compareBy'];
-  lines: PanelLine[];
-  /** The single study's full result (kind "study"). */
-  result?: StudyResult;
-  unit: string;
-  methodLines: string[];
-  vintageStamps: string[];
-  series: { id: number; code: string; title: string; unit: string; source: string }[];
-  studies: Study[];
-  /** For studies that follow "latest": the newest vintage and when it was loaded. */
-  freshness: { studyId: number; code: string; vintage: number; asOf: string; loadedAt: string; newSincePanel: boolean }[];
-}
-
 export async function panelData(db: Db, panel: Panel): Promise<PanelData> {
   const studies = await Promise.all(panel.studyIds.map((id) => getStudy(db, id)));
-  const lines: PanelLine[] = [];
+  const lines: PanelData['lines'] = [];
   const results: StudyResult[] = [];
   if (panel.compareBy === 'vintages') {
     const s = studies[0];

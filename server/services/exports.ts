@@ -11,7 +11,7 @@ import type { PublicUser } from '../schemas/auth.js';
 import { alignByPeriod } from '../schemas/align.js';
 import { getSeries } from './catalogue/series.js';
 import { observationsOf, resolveVintage } from './catalogue/vintages.js';
-import { getExhibit, publicExhibit, type ExhibitDeps } from './exhibits.js';
+import { getExhibit, publicExhibit, type ExhibitDeps } from './exhibits/read.js';
 import { studyResult } from './studies.js';
 
 export async function vintageExport(db: Db, seriesId: number, which: number | 'latest', format: 'csv' | 'xlsx' | 'sdmx-csv'): Promise<ExportFile> {

@@ -14,14 +14,12 @@ import {
   PERIODS_PER_YEAR,
   PERIOD_WORD,
   nullable,
-  type DecomposeResult,
-  type Method,
 } from '../analysis/index.js';
 import type { Db } from '../db.js';
 import { conflict, forbidden, HttpError, notFound } from '../lib/errors.js';
 import type { PublicUser } from '../schemas/auth.js';
-import type { CompareBody, CreateStudyBody, Study, StudySpec } from '../schemas/studies.js';
-export type { Study };
+import type { CompareBody, CompareResult, CreateStudyBody, RealtimeResult, Study, StudyResult, StudySpec } from '../schemas/studies.js';
+export type { Study, StudyResult };
 import type { AnalysisPool } from '../workers/pool.js';
 import { audit } from './audit.js';
 import { readSeriesValues, type SeriesValues } from './catalogue/stored-values.js';
@@ -141,33 +139,6 @@ export async function deleteStudy(db: Db, user: PublicUser, id: number, ip?: str
 
 // ------------------------------------------------------------------ results
 
-export interface StudyResult {
-  method: Method;
-  params: Record<string, unknown>;
-  transform: string;
-  frequency: string;
-  periods: string[];
-  input: (number | null)[];
-  trend: (number | null)[];
-  cycle: (number | null)[];
-  warnings: string[];
-  diagnostics: DecomposeResult['diagnostics'];
-  vintage: number;
-  asOf: string;
-  vintagePin: number | 'latest';
-  series: { id: number; code: string; title: string; unit: string; frequency: string; source: string };
-  statistics: Record<string, number | null>;
-  turningPoints: { index: number; period: string; type: 'peak' | 'trough'; value: number }[];
-  gain: ReturnType<typeof gainCurve>;
-  methodLine: string;
-  vintageStamp: string;
-  twoSided: boolean;
-  /** Periods at the end of a two-sided estimate that will be revised (two years). */
-  endOfSamplePeriods: number;
-  cautions: string[];
-  unitOfCycle: string;
-}
-
 const finiteOrNull = (v: number | null | undefined) => (v === null || v === undefined || !Number.isFinite(v) ? null : v);
 
 export function cycleUnit(transform: string, unit: string) {
@@ -189,7 +160,7 @@ export async function computeSpec(db: Db, spec: StudySpec): Promise<StudyResult>
     trend: nullable(r.trend),
     cycle: nullable(r.cycle),
     warnings: r.warnings,
-    diagnostics: r.diagnostics,
+    diagnostics: { ...r.diagnostics },
     vintage: data.vintage.number,
     asOf: data.vintage.asOf,
     vintagePin: spec.vintage,
@@ -214,7 +185,7 @@ export async function studyResult(db: Db, id: number) {
 
 // ------------------------------------------------------------------ comparisons
 
-export async function compare(db: Db, body: CompareBody) {
+export async function compare(db: Db, body: CompareBody): Promise<CompareResult> {
   const results: (StudyResult & { label: string })[] = [];
   for (const item of body.items) {
     const r = await computeSpec(db, item);
@@ -260,7 +231,7 @@ export async function compare(db: Db, body: CompareBody) {
  * each period) to separate revisions of the data from revisions that come from the filter's end
  * point. total revision = (real-time − quasi-real-time) + (quasi-real-time − final).
  */
-export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, id: number, onProgress?: (phase: string, done: number, total: number) => void) {
+export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, id: number, onProgress?: (phase: string, done: number, total: number) => void): Promise<RealtimeResult> {
   const s = await getStudy(db, id);
   const vintages = (await listVintages(db, s.seriesId)).sort((a, b) => a.number - b.number);
   if (vintages.length < 2) throw conflict('too_few_vintages', 'The real-time analysis needs at least two vintages of the series.');

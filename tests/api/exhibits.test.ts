@@ -1,7 +1,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { hashPassword } from '../../server/auth/password.js';
-import { EXHIBIT_STATES, type ExhibitState } from '../../server/schemas/boards.js';
+import { EXHIBIT_STATES, type ExhibitState } from '../../server/schemas/exhibits.js';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { signedIn } from '../helpers/session.js';
 

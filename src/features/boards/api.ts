@@ -1,21 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { StudyResult } from '@/features/studies/api';
-import type { Board, Panel } from '@schemas/boards';
+import type { Board, Panel, PanelData } from '@schemas/boards';
 
-export type { Board, Panel };
-
-export interface PanelData {
-  panelId: number;
-  kind: 'study' | 'compare';
-  compareBy: Panel['compareBy'];
-  lines: { label: string; studyId: number; periods: string[]; values: (number | null)[]; vintage: number; methodLine: string }[];
-  result?: StudyResult;
-  unit: string;
-  methodLines: string[];
-  vintageStamps: string[];
-  freshness: { studyId: number; code: string; vintage: number; asOf: string; loadedAt: string; newSincePanel: boolean }[];
-}
+export type { Board, Panel, PanelData };
 
 export const useBoards = () => useQuery({ queryKey: ['boards'], queryFn: () => api<{ items: Board[] }>('/boards').then((r) => r.items) });
 export const useBoard = (id: number) => useQuery({ queryKey: ['board', id], queryFn: () => api<Board & { panels: Panel[] }>(`/boards/${id}`), refetchInterval: 60_000 });

@@ -2,13 +2,13 @@ import { useQuery } from '@tanstack/react-query';
 import { useParams } from 'react-router-dom';
 import { ErrorNote, Spinner } from '@/components/ui';
 import { api } from '@/lib/api';
-import type { Exhibit } from './api';
+import type { PublicExhibit } from './api';
 import { ExhibitDownloads, ExhibitFigure } from './ExhibitFigure';
 
 /** A published exhibit opened by its public link (when an administrator allows public links). */
 export function PublicExhibitPage() {
   const { slug = '' } = useParams();
-  const ex = useQuery({ queryKey: ['public', slug], queryFn: () => api<Exhibit>(`/public/exhibits/${encodeURIComponent(slug)}`), retry: false });
+  const ex = useQuery({ queryKey: ['public', slug], queryFn: () => api<PublicExhibit>(`/public/exhibits/${encodeURIComponent(slug)}`), retry: false });
   return (
     <div className="mx-auto max-w-4xl px-6 py-8">
       <p className="mb-4 flex items-center gap-2 text-sm text-ink-soft">

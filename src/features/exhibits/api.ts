@@ -1,62 +1,8 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { Snapshot } from '@schemas/boards';
+import type { Exhibit, ExhibitDiffAnswer, ExhibitEvent, ExhibitState, ExhibitSummary, PublicExhibit, Snapshot } from '@schemas/exhibits';
 
-export type { Snapshot };
-
-export type ExhibitState = 'draft' | 'in_review' | 'returned' | 'approved' | 'published' | 'withdrawn';
-
-
-export interface ExhibitEvent {
-  id: number;
-  at: string;
-  actor: { id: number; name: string } | null;
-  from: ExhibitState | null;
-  to: ExhibitState;
-  comment: string | null;
-  revision: number | null;
-}
-
-export interface ExhibitSummary {
-  id: number;
-  title: string;
-  subtitle: string | null;
-  units: string | null;
-  sourceLine: string | null;
-  notes: string | null;
-  chartKind: 'cycle' | 'trend';
-  status: ExhibitState;
-  revision: number;
-  studyId: number | null;
-  panelId: number | null;
-  author: { id: number; name: string };
-  submittedAt: string | null;
-  publishedAt: string | null;
-  createdAt: string;
-  updatedAt: string;
-}
-
-export interface Exhibit extends ExhibitSummary {
-  snapshot: Snapshot | null;
-  snapshotChecksum: string | null;
-  live: Snapshot | null;
-  events: ExhibitEvent[];
-  moves: { to: ExhibitState; comment: 'required' | 'optional' }[];
-  editable: boolean;
-  publicUrl: string | null;
-}
-
-export interface DiffResult {
-  previous: Snapshot | null;
-  current: Snapshot;
-  diff: {
-    from: number | null;
-    to: number;
-    text: { field: string; before: string | null; after: string | null }[];
-    studies: { id: number; what: string; before: unknown; after: unknown }[];
-    data: { line: string; changedPeriods: number; newPeriods: number; maxAbsChange: number | null }[];
-  };
-}
+export type { Exhibit, ExhibitEvent, ExhibitState, ExhibitSummary, PublicExhibit, Snapshot };
 
 export const STATE_LABELS: Record<ExhibitState, string> = {
   draft: 'draft',
@@ -82,7 +28,7 @@ export const useExhibits = (filter: { status?: string; mine?: boolean }) =>
     queryFn: () => api<{ items: ExhibitSummary[] }>(`/exhibits?${new URLSearchParams({ ...(filter.status ? { status: filter.status } : {}), ...(filter.mine ? { mine: '1' } : {}) })}`).then((r) => r.items),
   });
 export const useExhibit = (id: number) => useQuery({ queryKey: ['exhibit', id], queryFn: () => api<Exhibit>(`/exhibits/${id}`) });
-export const useDiff = (id: number, enabled: boolean) => useQuery({ queryKey: ['exhibit', id, 'diff'], queryFn: () => api<DiffResult>(`/exhibits/${id}/diff`), enabled });
+export const useDiff = (id: number, enabled: boolean) => useQuery({ queryKey: ['exhibit', id, 'diff'], queryFn: () => api<ExhibitDiffAnswer>(`/exhibits/${id}/diff`), enabled });
 export const useReviewQueue = (enabled = true) => useQuery({ queryKey: ['review'], enabled, queryFn: () => api<{ items: (ExhibitSummary & { own: boolean })[] }>('/review').then((r) => r.items), refetchInterval: 30_000 });
 
 export function useExhibitMutations(id?: number) {

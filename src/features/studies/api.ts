@@ -1,67 +1,9 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useEffect, useState } from 'react';
 import { api } from '@/lib/api';
-import type { CompareBody, CreateStudyBody, Study, StudySpec } from '@schemas/studies';
+import type { CompareBody, CompareResult, CreateStudyBody, RealtimeResult, Study, StudyResult, StudySpec } from '@schemas/studies';
 
-export type { Study };
-import type { Method } from '@analysis/frequency';
-
-
-export interface StudyResult {
-  method: Method;
-  params: Record<string, number | string | boolean>;
-  transform: string;
-  frequency: 'A' | 'Q' | 'M';
-  periods: string[];
-  input: (number | null)[];
-  trend: (number | null)[];
-  cycle: (number | null)[];
-  warnings: string[];
-  diagnostics: Record<string, unknown>;
-  vintage: number;
-  asOf: string;
-  vintagePin: number | 'latest';
-  series: { id: number; code: string; title: string; unit: string; frequency: 'A' | 'Q' | 'M'; source: string };
-  statistics: Record<string, number | null>;
-  turningPoints: { index: number; period: string; type: 'peak' | 'trough'; value: number }[];
-  gain: { periods: number[]; gain: number[]; cutoff: number | null; band?: [number, number]; note?: string };
-  methodLine: string;
-  vintageStamp: string;
-  twoSided: boolean;
-  endOfSamplePeriods: number;
-  cautions: string[];
-  unitOfCycle: string;
-}
-
-export interface CompareResult {
-  periods: string[];
-  reference: number;
-  mixedFrequencies: boolean;
-  items: {
-    label: string;
-    code: string;
-    method: Method;
-    methodLine: string;
-    vintageStamp: string;
-    unitOfCycle: string;
-    cycle: (number | null)[];
-    statistics: Record<string, number | null>;
-    crossCorrelations: { lag: number; r: number | null; n: number }[];
-  }[];
-}
-
-export interface RealtimeResult {
-  unitOfCycle: string;
-  methodLine: string;
-  finalVintage: number;
-  fan: { vintage: number; asOf: string; periods: string[]; cycle: (number | null)[] }[];
-  final: { vintage: number; periods: string[]; cycle: (number | null)[] };
-  realTime: { vintage: number; asOf: string; period: string | null; value: number | null; final: number | null }[];
-  quasiRealTime: { period: string; value: number | null; final: number | null }[];
-  statistics: Record<'realTime' | 'quasiRealTime' | 'dataRevisions', Record<string, number | null>>;
-  note: string | null;
-  word: string;
-}
+export type { CompareResult, RealtimeResult, Study, StudyResult };
 
 export function useDebounced<T>(value: T, ms: number): T {
   const [v, setV] = useState(value);

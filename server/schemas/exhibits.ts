@@ -1,0 +1,106 @@
+/** Exhibits (charts prepared for publication) and their review: bodies, states, snapshots and answers, shared with the client. */
+import { z } from 'zod';
+import { notesSchema, titleSchema } from './boards.js';
+
+export const EXHIBIT_STATES = ['draft', 'in_review', 'returned', 'approved', 'published', 'withdrawn'] as const;
+export type ExhibitState = (typeof EXHIBIT_STATES)[number];
+
+const exhibitText = {
+  title: titleSchema,
+  subtitle: z.string().trim().max(300, 'A subtitle has at most 300 characters.').optional(),
+  notes: notesSchema.optional(),
+  units: z.string().trim().max(120, 'Units have at most 120 characters.').optional(),
+  sourceLine: z.string().trim().max(300, 'The source line has at most 300 characters.').optional(),
+  chartKind: z.enum(['cycle', 'trend']).optional(),
+};
+export const createExhibitSchema = z
+  .object({ studyId: z.number().int().positive().optional(), panelId: z.number().int().positive().optional(), ...exhibitText })
+  .refine((v) => (v.studyId === undefined) !== (v.panelId === undefined), { message: 'Draft an exhibit from one study or one panel.', path: ['studyId'] });
+export type CreateExhibitBody = z.infer<typeof createExhibitSchema>;
+export const updateExhibitSchema = z.object({ ...exhibitText, title: titleSchema.optional() }).refine((v) => Object.keys(v).length > 0, 'Send at least one field.');
+export type UpdateExhibitBody = z.infer<typeof updateExhibitSchema>;
+export const transitionSchema = z.object({
+  to: z.enum(EXHIBIT_STATES, { error: `"to" is one of ${EXHIBIT_STATES.join(', ')}.` }),
+  comment: z.string().trim().max(5000, 'A comment has at most 5000 characters.').optional(),
+});
+
+/** What an exhibit freezes when it is submitted, and renders from afterwards (server and client). */
+export interface Snapshot {
+  schema: 1;
+  kind: 'study' | 'panel';
+  chartKind: 'cycle' | 'trend' | 'compare';
+  text: { title: string; subtitle: string | null; units: string | null; sourceLine: string | null; notes: string | null };
+  series: { id: number; code: string; title: string; unit: string; source: string }[];
+  lines: { label: string; role: 'input' | 'trend' | 'cycle'; periods: string[]; values: (number | null)[] }[];
+  studies: { id: number; title: string; method: string; params: Record<string, unknown>; transform: string; vintage: number; asOf: string; vintageChecksum: string; methodLine: string }[];
+  turningPoints?: { period: string; type: 'peak' | 'trough' }[];
+  endOfSamplePeriods: number;
+  methodLine: string;
+  vintageStamp: string;
+  caution: string;
+  software: { name: string; version: string };
+  frozenAt: string | null;
+}
+
+/** One recorded state change of an exhibit. */
+export interface ExhibitEvent {
+  id: number;
+  at: string;
+  actor: { id: number; name: string } | null;
+  from: ExhibitState | null;
+  to: ExhibitState;
+  comment: string | null;
+  revision: number | null;
+}
+
+/** An exhibit in lists (the Review desk adds `own`). */
+export interface ExhibitSummary {
+  id: number;
+  title: string;
+  subtitle: string | null;
+  units: string | null;
+  sourceLine: string | null;
+  notes: string | null;
+  chartKind: 'cycle' | 'trend';
+  status: ExhibitState;
+  revision: number;
+  studyId: number | null;
+  panelId: number | null;
+  author: { id: number; name: string };
+  submittedAt: string | null;
+  publishedAt: string | null;
+  createdAt: string;
+  updatedAt: string;
+}
+
+/** One exhibit as GET /exhibits/:id answers it. */
+export interface Exhibit extends ExhibitSummary {
+  snapshot: Snapshot | null;
+  snapshotChecksum: string | null;
+  /** A draft's content computed from the current data (the author's view before submission). */
+  live: Snapshot | null;
+  events: ExhibitEvent[];
+  /** The moves the person asking may make now. */
+  moves: { to: ExhibitState; comment: 'required' | 'optional' }[];
+  editable: boolean;
+  publicUrl: string | null;
+}
+
+/** A published exhibit by its public link. */
+export type PublicExhibit = ExhibitSummary & { snapshot: Snapshot; snapshotChecksum: string; events: ExhibitEvent[] };
+
+/** What changed between two revisions. */
+export interface ExhibitDiff {
+  from: number | null;
+  to: number;
+  text: { field: string; before: string | null; after: string | null }[];
+  studies: { id: number; what: string; before: unknown; after: unknown }[];
+  data: { line: string; changedPeriods: number; newPeriods: number; maxAbsChange: number | null }[];
+}
+
+/** GET /exhibits/:id/diff. */
+export interface ExhibitDiffAnswer {
+  previous: Snapshot | null;
+  current: Snapshot;
+  diff: ExhibitDiff;
+}

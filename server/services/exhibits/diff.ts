@@ -1,0 +1,52 @@
+/** What changed between two revisions (snapshots) of an exhibit: text, study settings and data. */
+import { conflict, notFound } from '../../lib/errors.js';
+import type { PublicUser } from '../../schemas/auth.js';
+import type { ExhibitDiff, ExhibitDiffAnswer, Snapshot } from '../../schemas/exhibits.js';
+import { canSee, exhibitRow, latestRevision, type ExhibitDeps } from './read.js';
+
+export function diffSnapshots(a: Snapshot | null, b: Snapshot, numbers: [number | null, number]): ExhibitDiff {
+  const text: ExhibitDiff['text'] = [];
+  for (const field of ['title', 'subtitle', 'units', 'sourceLine', 'notes'] as const) {
+    const before = a ? a.text[field] : null;
+    if (!a || before !== b.text[field]) text.push({ field, before, after: b.text[field] });
+  }
+  const studies: ExhibitDiff['studies'] = [];
+  for (const s of b.studies) {
+    const old = a?.studies.find((x) => x.id === s.id);
+    for (const what of ['method', 'params', 'transform', 'vintage'] as const) {
+      if (!old || JSON.stringify(old[what]) !== JSON.stringify(s[what])) studies.push({ id: s.id, what, before: old ? old[what] : null, after: s[what] });
+    }
+  }
+  const data: ExhibitDiff['data'] = [];
+  for (const line of b.lines) {
+    const old = a?.lines.find((l) => l.label === line.label && l.role === line.role);
+    const before = new Map(old ? old.periods.map((p, i) => [p, old.values[i]]) : []);
+    let changed = 0;
+    let added = 0;
+    let max: number | null = null;
+    line.periods.forEach((p, i) => {
+      if (!before.has(p)) {
+        added++;
+        return;
+      }
+      const x = before.get(p);
+      const y = line.values[i];
+      if (x !== y) {
+        changed++;
+        if (x !== null && x !== undefined && y !== null) max = Math.max(max ?? 0, Math.abs(y - x));
+      }
+    });
+    data.push({ line: `${line.label}${line.role !== 'cycle' && line.label !== line.role ? ` (${line.role})` : ''}`, changedPeriods: changed, newPeriods: a ? added : 0, maxAbsChange: max });
+  }
+  return { from: numbers[0], to: numbers[1], text, studies, data };
+}
+
+/** What changed between the exhibit's latest revision and the one before it. */
+export async function exhibitDiff(deps: ExhibitDeps, user: PublicUser, id: number): Promise<ExhibitDiffAnswer> {
+  const row = await exhibitRow(deps.db, id);
+  if (!canSee(user, row)) throw notFound('The exhibit');
+  const current = await latestRevision(deps.db, id);
+  if (!current) throw conflict('not_submitted', 'The exhibit has not been submitted yet, so there is no revision to compare.');
+  const previous = current.number > 1 ? await latestRevision(deps.db, id, current.number - 1) : null;
+  return { previous: previous?.snapshot ?? null, current: current.snapshot, diff: diffSnapshots(previous?.snapshot ?? null, current.snapshot, [previous?.number ?? null, current.number]) };
+}

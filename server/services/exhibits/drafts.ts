@@ -1,0 +1,72 @@
+/** Drafting exhibits: created from a study or a board panel, edited by the author while a draft or returned. */
+import type { PublicUser } from '../../schemas/auth.js';
+import type { CreateExhibitBody, UpdateExhibitBody } from '../../schemas/exhibits.js';
+import { conflict, forbidden, notFound } from '../../lib/errors.js';
+import { audit } from '../audit.js';
+import { panelById, panelData } from '../boards.js';
+import { computeSpec, getStudy } from '../studies.js';
+import { canSee, exhibitRow, getExhibit, type ExhibitDeps } from './read.js';
+
+export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: CreateExhibitBody, ip?: string) {
+  const { db } = deps;
+  let units = body.units ?? null;
+  let sourceLine = body.sourceLine ?? null;
+  if (body.studyId) {
+    const s = await getStudy(db, body.studyId);
+    const r = await computeSpec(db, s);
+    units ??= r.unitOfCycle;
+    sourceLine ??= r.series.source;
+  } else {
+    const panel = await panelById(db, user, body.panelId!);
+    const data = await panelData(db, panel);
+    units ??= data.unit;
+    sourceLine ??= [...new Set(data.series.map((s) => s.source))].join('; ');
+  }
+  const id = await db.transaction(async (trx) => {
+    const [newId] = await trx('exhibits').insert({
+      author_id: user.id,
+      study_id: body.studyId ?? null,
+      panel_id: body.panelId ?? null,
+      title: body.title,
+      subtitle: body.subtitle ?? null,
+      units,
+      source_line: sourceLine,
+      notes: body.notes ?? null,
+      chart_kind: body.chartKind ?? 'cycle',
+      status: 'draft',
+    });
+    await trx('exhibit_events').insert({ exhibit_id: newId, actor_id: user.id, from_status: null, to_status: 'draft', comment: null, revision: 0 });
+    await audit(trx, { actorId: user.id, action: 'exhibit.create', targetType: 'exhibit', targetId: newId, ip });
+    return newId;
+  });
+  return getExhibit(deps, user, id);
+}
+
+export async function updateExhibit(deps: ExhibitDeps, user: PublicUser, id: number, body: UpdateExhibitBody) {
+  const { db } = deps;
+  await db.transaction(async (trx) => {
+    const row = await exhibitRow(trx, id, true);
+    if (!canSee(user, row)) throw notFound('The exhibit');
+    if (row.status !== 'draft' && row.status !== 'returned') {
+      throw conflict('exhibit_frozen', `An exhibit that is ${row.status.replace('_', ' ')} cannot be changed${row.status === 'published' || row.status === 'approved' ? '; a change to it is a new exhibit' : ''}.`);
+    }
+    if (row.author_id !== user.id) throw forbidden('not_author', `Only ${row.author_name}, the author, edits this exhibit.`);
+    const change: Record<string, unknown> = { updated_at: new Date() };
+    if (body.title !== undefined) change.title = body.title;
+    if (body.subtitle !== undefined) change.subtitle = body.subtitle || null;
+    if (body.notes !== undefined) change.notes = body.notes || null;
+    if (body.units !== undefined) change.units = body.units || null;
+    if (body.sourceLine !== undefined) change.source_line = body.sourceLine || null;
+    if (body.chartKind !== undefined) change.chart_kind = body.chartKind;
+    await trx('exhibits').where('id', id).update(change);
+  });
+  return getExhibit(deps, user, id);
+}
+
+export async function deleteExhibit(deps: ExhibitDeps, user: PublicUser, id: number) {
+  const row = await exhibitRow(deps.db, id);
+  if (!canSee(user, row)) throw notFound('The exhibit');
+  if (row.author_id !== user.id) throw forbidden('not_author', 'Only the author deletes a draft.');
+  if (row.status !== 'draft') throw conflict('exhibit_frozen', 'Only a draft that was never submitted can be deleted; a published exhibit is withdrawn instead.');
+  await deps.db('exhibits').where('id', id).delete();
+}

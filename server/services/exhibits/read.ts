@@ -1,0 +1,109 @@
+/**
+ * Exhibits as people see them: who may see which (readers: published and withdrawn ones; authors:
+ * their own; editors: all but others' drafts), one exhibit with its snapshot and events, the list,
+ * and the public copy of a published exhibit.
+ */
+import type { Knex } from 'knex';
+import type { Config } from '../../config.js';
+import type { Db } from '../../db.js';
+import { HttpError, notFound } from '../../lib/errors.js';
+import type { Mailer } from '../../mail/mailer.js';
+import type { PublicUser } from '../../schemas/auth.js';
+import type { Exhibit, ExhibitEvent, ExhibitState, ExhibitSummary, PublicExhibit, Snapshot } from '../../schemas/exhibits.js';
+import { getSettings } from '../settings.js';
+import { allowedMoves } from './moves.js';
+import { buildSnapshot } from './snapshots.js';
+
+export interface ExhibitDeps {
+  db: Db;
+  config: Config;
+  mailer: Mailer;
+}
+
+const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
+
+export async function exhibitRow(db: Db | Knex.Transaction, id: number, lock = false) {
+  const q = db('exhibits as e').join('users as u', 'u.id', 'e.author_id').where('e.id', id).select('e.*', 'u.name as author_name', 'u.email as author_email');
+  if (lock) q.forUpdate();
+  const row = await q.first();
+  if (!row) throw notFound('The exhibit');
+  return row;
+}
+
+/** Who may see which exhibits. Readers: published and withdrawn ones; authors: their own; editors: all but others' drafts. */
+export function canSee(user: PublicUser, row: Record<string, any>) {
+  if (row.status === 'published' || row.status === 'withdrawn') return true;
+  if (row.author_id === user.id || user.roles.includes('admin')) return true;
+  if (user.roles.includes('editor') && row.status !== 'draft') return true;
+  return false;
+}
+
+export async function latestRevision(db: Db | Knex.Transaction, exhibitId: number, number?: number) {
+  const q = db('exhibit_revisions').where('exhibit_id', exhibitId);
+  if (number) q.where('number', number);
+  else q.orderBy('number', 'desc');
+  const r = await q.first();
+  return r ? { number: r.number as number, snapshot: JSON.parse(r.snapshot) as Snapshot, checksum: r.checksum as string, createdAt: iso(r.created_at) } : null;
+}
+
+async function events(db: Db, exhibitId: number): Promise<ExhibitEvent[]> {
+  const rows = await db('exhibit_events as ev').leftJoin('users as u', 'u.id', 'ev.actor_id').where('ev.exhibit_id', exhibitId).orderBy('ev.id').select('ev.*', 'u.name as actor_name');
+  return rows.map((r) => ({ id: r.id, at: iso(r.at)!, actor: r.actor_id ? { id: r.actor_id, name: r.actor_name } : null, from: r.from_status, to: r.to_status, comment: r.comment, revision: r.revision }));
+}
+
+export function summary(row: Record<string, any>): ExhibitSummary {
+  return {
+    id: row.id,
+    title: row.title,
+    subtitle: row.subtitle,
+    units: row.units,
+    sourceLine: row.source_line,
+    notes: row.notes,
+    chartKind: row.chart_kind,
+    status: row.status as ExhibitState,
+    revision: row.revision,
+    studyId: row.study_id,
+    panelId: row.panel_id,
+    author: { id: row.author_id, name: row.author_name },
+    submittedAt: iso(row.submitted_at),
+    publishedAt: iso(row.published_at),
+    createdAt: iso(row.created_at)!,
+    updatedAt: iso(row.updated_at)!,
+  };
+}
+
+export async function getExhibit(deps: ExhibitDeps, user: PublicUser, id: number): Promise<Exhibit> {
+  const { db } = deps;
+  const row = await exhibitRow(db, id);
+  if (!canSee(user, row)) throw notFound('The exhibit');
+  const revision = await latestRevision(db, id);
+  const settings = await getSettings(db);
+  const editable = (row.status === 'draft' || row.status === 'returned') && row.author_id === user.id;
+  // A draft (or a returned exhibit being reworked) shows its live content; otherwise the frozen snapshot.
+  const live = editable || (!revision && row.author_id === user.id) ? await buildSnapshot(db, user, row, false).catch((e) => (e instanceof HttpError ? null : Promise.reject(e))) : null;
+  return {
+    ...summary(row),
+    snapshot: revision?.snapshot ?? null,
+    snapshotChecksum: revision?.checksum ?? null,
+    live,
+    events: await events(db, id),
+    moves: allowedMoves(user, row),
+    editable,
+    publicUrl: row.status === 'published' && settings.publicExhibitLinks && row.public_slug ? `${deps.config.publicOrigin}/p/${row.public_slug}` : null,
+  };
+}
+
+export async function listExhibits(db: Db, user: PublicUser, filter: { status?: string; mine?: boolean }): Promise<ExhibitSummary[]> {
+  const q = db('exhibits as e').join('users as u', 'u.id', 'e.author_id').select('e.*', 'u.name as author_name').orderBy('e.updated_at', 'desc').limit(500);
+  if (filter.status) q.where('e.status', filter.status);
+  if (filter.mine) q.where('e.author_id', user.id);
+  const rows = (await q).filter((r) => canSee(user, r));
+  return rows.map(summary);
+}
+export async function publicExhibit(deps: ExhibitDeps, slug: string): Promise<PublicExhibit> {
+  const settings = await getSettings(deps.db);
+  const row = await deps.db('exhibits as e').join('users as u', 'u.id', 'e.author_id').where('e.public_slug', slug).first('e.*', 'u.name as author_name');
+  if (!settings.publicExhibitLinks || !row || row.status !== 'published') throw notFound('The published exhibit');
+  const revision = await latestRevision(deps.db, row.id);
+  return { ...summary(row), snapshot: revision!.snapshot, snapshotChecksum: revision!.checksum, events: [] };
+}

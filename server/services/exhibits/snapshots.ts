@@ -1,0 +1,77 @@
+/**
+ * Snapshots: what an exhibit freezes when it is submitted (data, vintage numbers and checksums,
+ * method, parameters, software version), and a draft's live content computed the same way. From
+ * submission on, an exhibit renders from its latest snapshot, whatever happens to the series.
+ */
+import type { Db } from '../../db.js';
+import { conflict, HttpError } from '../../lib/errors.js';
+import { sha256 } from '../../lib/secrets.js';
+import { version } from '../../lib/version.js';
+import type { PublicUser } from '../../schemas/auth.js';
+import { CAUTION_LINE } from '../../schemas/cautions.js';
+import type { Snapshot } from '../../schemas/exhibits.js';
+import type { StudyResult } from '../../schemas/studies.js';
+import type { PanelData } from '../../schemas/boards.js';
+import { panelById, panelData } from '../boards.js';
+import { computeSpec, getStudy } from '../studies.js';
+async function vintageChecksum(db: Db, seriesId: number, number: number) {
+  return (await db('vintages').where({ series_id: seriesId, number }).first('checksum'))?.checksum ?? '';
+}
+
+/** The exhibit's content computed from the current data (a draft's live view, or the next snapshot). */
+export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string, any>, frozen: boolean): Promise<Snapshot> {
+  const common = {
+    schema: 1 as const,
+    text: { title: row.title, subtitle: row.subtitle, units: row.units, sourceLine: row.source_line, notes: row.notes },
+    caution: CAUTION_LINE,
+    software: { name: 'Tidegauge', version },
+    frozenAt: frozen ? new Date().toISOString() : null,
+  };
+  // One study's decomposition: the series, its trend and its cycle.
+  const single = (kind: Snapshot['kind'], r: StudyResult, studies: Snapshot['studies'], series: Snapshot['series']): Snapshot => ({
+    ...common,
+    kind,
+    chartKind: row.chart_kind === 'trend' ? 'trend' : 'cycle',
+    series,
+    lines: (['input', 'trend', 'cycle'] as const).map((role) => ({ label: role, role, periods: r.periods, values: r[role] })),
+    studies,
+    turningPoints: r.turningPoints.map((t) => ({ period: t.period, type: t.type })),
+    endOfSamplePeriods: r.endOfSamplePeriods,
+    methodLine: r.methodLine,
+    vintageStamp: r.vintageStamp,
+  });
+  if (row.study_id) {
+    const s = await getStudy(db, row.study_id);
+    const r = await computeSpec(db, s);
+    const studies = [{ id: s.id, title: s.title, method: r.method, params: r.params, transform: r.transform, vintage: r.vintage, asOf: r.asOf, vintageChecksum: await vintageChecksum(db, r.series.id, r.vintage), methodLine: r.methodLine }];
+    return single('study', r, studies, [{ id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source }]);
+  }
+  if (!row.panel_id) throw conflict('exhibit_source_gone', 'The study or panel this exhibit was drafted from no longer exists.');
+  const panel = await panelById(db, user, row.panel_id).catch((e) => {
+    if (e instanceof HttpError && e.status === 404) throw conflict('exhibit_source_gone', 'The panel this exhibit was drafted from no longer exists.');
+    throw e;
+  });
+  const data: PanelData = await panelData(db, panel);
+  const studies: Snapshot['studies'] = [];
+  for (const l of data.lines) {
+    const s = data.studies.find((x) => x.id === l.studyId)!;
+    studies.push({ id: s.id, title: s.title, method: s.method, params: s.params, transform: s.transform, vintage: l.vintage, asOf: '', vintageChecksum: await vintageChecksum(db, s.seriesId, l.vintage), methodLine: l.methodLine });
+  }
+  if (data.kind === 'study' && data.result) {
+    studies[0].asOf = data.result.asOf;
+    return single('panel', data.result, studies, data.series);
+  }
+  return {
+    ...common,
+    kind: 'panel',
+    chartKind: 'compare',
+    series: data.series,
+    lines: data.lines.map((l) => ({ label: l.label, role: 'cycle' as const, periods: l.periods, values: l.values })),
+    studies,
+    endOfSamplePeriods: 0,
+    methodLine: data.methodLines.join(' · '),
+    vintageStamp: data.vintageStamps.join(' · '),
+  };
+}
+
+export const snapshotChecksum = (s: Snapshot) => sha256(JSON.stringify(s));
