@@ -5,7 +5,7 @@
 import type { Config } from '../server/config.js';
 import type { Db } from '../server/db.js';
 import type { Mailer } from '../server/mail/mailer.js';
-import { loadUser } from '../server/services/accounts.js';
+import { loadUser } from '../server/services/people/users.js';
 import { addPanel, createBoard } from '../server/services/boards.js';
 import { createExhibit } from '../server/services/exhibits/drafts.js';
 import { transition } from '../server/services/exhibits/review.js';

@@ -5,7 +5,7 @@
  */
 import type { Db } from '../server/db.js';
 import { hashPassword } from '../server/auth/password.js';
-import type { Role } from '../server/schemas/auth.js';
+import type { Role } from '../server/schemas/people.js';
 
 export const DEMO_PASSWORD = 'tidegauge-demo';
 export const DEMO_PEOPLE: { email: string; name: string; roles: Role[] }[] = [

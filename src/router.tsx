@@ -6,7 +6,7 @@ import { RequireRole } from '@/features/auth/RequireRole';
 import { SignInPage } from '@/features/auth/SignInPage';
 import { MailboxPage } from '@/features/people/MailboxPage';
 import { PeoplePage } from '@/features/people/PeoplePage';
-import { ProfilePage } from '@/features/profile/ProfilePage';
+import { ProfilePage } from '@/features/people/ProfilePage';
 import { HomePage } from '@/routes/HomePage';
 import { NotFoundPage } from '@/routes/NotFoundPage';
 import { CataloguePage } from '@/features/catalogue/CataloguePage';

@@ -6,7 +6,7 @@
 import fs from 'node:fs';
 import { createDb, migrateLatest } from '../../server/db.js';
 import { hashPassword } from '../../server/auth/password.js';
-import { createToken } from '../../server/services/accounts.js';
+import { createToken } from '../../server/services/people/tokens.js';
 import { checksumOf } from '../../server/services/catalogue/vintages.js';
 import { formatPeriod, periodIndex } from '../../server/analysis/periods.js';
 

@@ -4,7 +4,7 @@
  */
 import { Lucia, TimeSpan, type Adapter, type DatabaseSession, type DatabaseUser } from 'lucia';
 import { fastQuery, type Db } from '../db.js';
-import type { Role } from '../schemas/auth.js';
+import type { Role } from '../schemas/people.js';
 
 export const SESSION_COOKIE = 'tg_session';
 

@@ -7,7 +7,7 @@ import type { RequestHandler, Response } from 'express';
 import type { Config } from '../config.js';
 import type { Db } from '../db.js';
 import { HttpError } from '../lib/errors.js';
-import { userForToken } from '../services/accounts.js';
+import { userForToken } from '../services/people/tokens.js';
 import { SESSION_COOKIE, type AppLucia } from './lucia.js';
 
 declare module 'express-serve-static-core' {

@@ -6,7 +6,8 @@
 import express, { type NextFunction, type Request, type RequestHandler, type Response, type Router } from 'express';
 import { z } from 'zod';
 import { HttpError, forbidden, unauthorized } from './errors.js';
-import type { AuthContext, Role } from '../schemas/auth.js';
+import type { AuthContext } from '../schemas/auth.js';
+import type { Role } from '../schemas/people.js';
 
 export type Access = 'public' | 'signedIn' | readonly Role[];
 

@@ -6,7 +6,7 @@
 import type { AddressInfo } from 'node:net';
 import { simpleParser } from 'mailparser';
 import { SMTPServer } from 'smtp-server';
-import type { MailboxMessage } from '../schemas/auth.js';
+import type { MailboxMessage } from '../schemas/people.js';
 
 export type StoredMessage = MailboxMessage;
 

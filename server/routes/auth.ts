@@ -1,26 +1,33 @@
+import type { Request, Response } from 'express';
 import type { AppDeps } from '../deps.js';
 import { clearSessionCookie, setSessionCookie } from '../auth/middleware.js';
 import type { RouteSpec } from '../lib/http.js';
-import { acceptInvitationSchema, completeResetSchema, requestResetSchema, signInSchema } from '../schemas/auth.js';
-import * as accounts from '../services/accounts.js';
+import { completeResetSchema, requestResetSchema, signInSchema } from '../schemas/auth.js';
+import { acceptInvitationSchema, type PublicUser } from '../schemas/people.js';
+import { completePasswordReset, requestPasswordReset, signIn } from '../services/auth.js';
+import { acceptInvitation, lookupInvitation } from '../services/people/invitations.js';
 import { z } from 'zod';
 
 export function authRoutes(deps: AppDeps): RouteSpec[] {
   const { lucia, db } = deps;
+  /** Sets the cookie of a session just started and answers the person. */
+  const signedIn = (req: Request, res: Response, started: { user: PublicUser; session: { id: string } }) => {
+    setSessionCookie(res, lucia, started.session.id, req.secure);
+    return { user: started.user };
+  };
   return [
     {
       method: 'post',
       path: '/auth/sign-in',
       access: 'public',
       summary: 'Sign in with e-mail and password; sets the session cookie',
-      tags: ['accounts'],
+      tags: ['auth'],
       body: signInSchema,
       handler: async ({ body, req, res }) => {
-        const { user, session } = await accounts.signIn(deps, { ...body, ip: req.ip ?? '', userAgent: req.get('user-agent') });
+        const started = await signIn(deps, { ...body, ip: req.ip ?? '', userAgent: req.get('user-agent') });
         // A new session id at every sign-in (no fixation): end the one the browser came with.
         if (req.auth?.sessionId) await lucia.invalidateSession(req.auth.sessionId);
-        setSessionCookie(res, lucia, session.id, req.secure);
-        return { user };
+        return signedIn(req, res, started);
       },
     },
     {
@@ -28,7 +35,7 @@ export function authRoutes(deps: AppDeps): RouteSpec[] {
       path: '/auth/sign-out',
       access: 'signedIn',
       summary: 'End the current session',
-      tags: ['accounts'],
+      tags: ['auth'],
       handler: async ({ auth, req, res }) => {
         if (auth?.sessionId) await lucia.invalidateSession(auth.sessionId);
         clearSessionCookie(res, lucia, req.secure);
@@ -40,7 +47,7 @@ export function authRoutes(deps: AppDeps): RouteSpec[] {
       path: '/auth/me',
       access: 'signedIn',
       summary: 'The person signed in',
-      tags: ['accounts'],
+      tags: ['auth'],
       handler: ({ auth }) => ({ user: auth!.user, via: auth!.via }),
     },
     {
@@ -48,11 +55,11 @@ export function authRoutes(deps: AppDeps): RouteSpec[] {
       path: '/auth/password-reset',
       access: 'public',
       summary: 'Mail a password-reset link (the same answer whether or not the address has an account)',
-      tags: ['accounts'],
+      tags: ['auth'],
       body: requestResetSchema,
       status: 202,
       handler: async ({ body, req }) => {
-        await accounts.requestPasswordReset(deps, body.email, req.ip);
+        await requestPasswordReset(deps, body.email, req.ip);
         return { ok: true, message: 'If this address has an account, a reset link is on its way.' };
       },
     },
@@ -61,12 +68,10 @@ export function authRoutes(deps: AppDeps): RouteSpec[] {
       path: '/auth/password-reset/complete',
       access: 'public',
       summary: 'Set a new password with a reset link; signs in',
-      tags: ['accounts'],
+      tags: ['auth'],
       body: completeResetSchema,
       handler: async ({ body, req, res }) => {
-        const { user, session } = await accounts.completePasswordReset(deps, body, req.ip ?? '', req.get('user-agent'));
-        setSessionCookie(res, lucia, session.id, req.secure);
-        return { user };
+        return signedIn(req, res, await completePasswordReset(deps, body, req.ip ?? '', req.get('user-agent')));
       },
     },
     {
@@ -74,21 +79,19 @@ export function authRoutes(deps: AppDeps): RouteSpec[] {
       path: '/invitations/lookup/:token',
       access: 'public',
       summary: 'Check an invitation link before accepting it',
-      tags: ['accounts'],
-      handler: ({ params }) => accounts.lookupInvitation(db, z.string().max(200).parse(params.token)),
+      tags: ['auth'],
+      handler: ({ params }) => lookupInvitation(db, z.string().max(200).parse(params.token)),
     },
     {
       method: 'post',
       path: '/invitations/accept',
       access: 'public',
       summary: 'Accept an invitation: set name and password; signs in',
-      tags: ['accounts'],
+      tags: ['auth'],
       body: acceptInvitationSchema,
       status: 201,
       handler: async ({ body, req, res }) => {
-        const { user, session } = await accounts.acceptInvitation(deps, body, req.ip ?? '', req.get('user-agent'));
-        setSessionCookie(res, lucia, session.id, req.secure);
-        return { user };
+        return signedIn(req, res, await acceptInvitation(deps, body, req.ip ?? '', req.get('user-agent')));
       },
     },
   ];

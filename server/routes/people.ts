@@ -1,7 +1,9 @@
 import type { AppDeps } from '../deps.js';
 import { idParam, type RouteSpec } from '../lib/http.js';
-import { createTokenSchema, inviteSchema, updateSettingsSchema, updateUserSchema } from '../schemas/auth.js';
-import * as accounts from '../services/accounts.js';
+import { createTokenSchema, inviteSchema, updateSettingsSchema, updateUserSchema } from '../schemas/people.js';
+import { createToken, listTokens, revokeToken } from '../services/people/tokens.js';
+import { invite, listInvitations, resendInvitation, revokeInvitation } from '../services/people/invitations.js';
+import { assertNotSelfDeactivation, listUsers, updateUser } from '../services/people/users.js';
 import { listAudit } from '../services/audit.js';
 import { getSettings, updateSettings } from '../services/settings.js';
 import { z } from 'zod';
@@ -12,7 +14,7 @@ const ADMIN = ['admin'] as const;
 export function peopleRoutes(deps: AppDeps): RouteSpec[] {
   const { db } = deps;
   return [
-    { method: 'get', path: '/users', access: ADMIN, summary: 'Everyone in the workspace', tags: ['people'], handler: async () => ({ items: await accounts.listUsers(db) }) },
+    { method: 'get', path: '/users', access: ADMIN, summary: 'Everyone in the workspace', tags: ['people'], handler: async () => ({ items: await listUsers(db) }) },
     {
       method: 'patch',
       path: '/users/:id',
@@ -22,11 +24,11 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
       body: updateUserSchema,
       handler: async ({ params, body, auth, req }) => {
         const id = idParam(params.id, 'The person');
-        accounts.assertNotSelfDeactivation(auth!.user, id, body.status);
-        return { user: await accounts.updateUser(deps, auth!.user, id, body, req.ip) };
+        assertNotSelfDeactivation(auth!.user, id, body.status);
+        return { user: await updateUser(deps, auth!.user, id, body, req.ip) };
       },
     },
-    { method: 'get', path: '/invitations', access: ADMIN, summary: 'Pending invitations', tags: ['people'], handler: async () => ({ items: await accounts.listInvitations(db) }) },
+    { method: 'get', path: '/invitations', access: ADMIN, summary: 'Pending invitations', tags: ['people'], handler: async () => ({ items: await listInvitations(db) }) },
     {
       method: 'post',
       path: '/invitations',
@@ -35,7 +37,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['people'],
       body: inviteSchema,
       status: 201,
-      handler: ({ body, auth, req }) => accounts.invite(deps, auth!.user, body, req.ip),
+      handler: ({ body, auth, req }) => invite(deps, auth!.user, body, req.ip),
     },
     {
       method: 'post',
@@ -43,7 +45,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
       access: ADMIN,
       summary: 'Send an invitation again with a fresh link',
       tags: ['people'],
-      handler: ({ params, auth, req }) => accounts.resendInvitation(deps, auth!.user, idParam(params.id, 'The invitation'), req.ip),
+      handler: ({ params, auth, req }) => resendInvitation(deps, auth!.user, idParam(params.id, 'The invitation'), req.ip),
     },
     {
       method: 'delete',
@@ -51,7 +53,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
       access: ADMIN,
       summary: 'Withdraw a pending invitation',
       tags: ['people'],
-      handler: ({ params, auth, req }) => accounts.revokeInvitation(db, auth!.user, idParam(params.id, 'The invitation'), req.ip),
+      handler: ({ params, auth, req }) => revokeInvitation(db, auth!.user, idParam(params.id, 'The invitation'), req.ip),
     },
     {
       method: 'get',
@@ -59,7 +61,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
       access: ADMIN,
       summary: 'A person’s API tokens (to revoke them)',
       tags: ['people'],
-      handler: async ({ params }) => ({ items: await accounts.listTokens(db, idParam(params.id, 'The person')) }),
+      handler: async ({ params }) => ({ items: await listTokens(db, idParam(params.id, 'The person')) }),
     },
     {
       method: 'get',
@@ -90,18 +92,18 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
       body: createTokenSchema,
       status: 201,
       handler: async ({ body, auth, req }) => {
-        const t = await accounts.createToken(db, auth!.user.id, body.name, req.ip);
+        const t = await createToken(db, auth!.user.id, body.name, req.ip);
         return { id: t.id, name: t.name, token: t.token, prefix: t.prefix };
       },
     },
-    { method: 'get', path: '/tokens', access: 'signedIn', summary: 'My API tokens', tags: ['tokens'], handler: async ({ auth }) => ({ items: await accounts.listTokens(db, auth!.user.id) }) },
+    { method: 'get', path: '/tokens', access: 'signedIn', summary: 'My API tokens', tags: ['tokens'], handler: async ({ auth }) => ({ items: await listTokens(db, auth!.user.id) }) },
     {
       method: 'delete',
       path: '/tokens/:id',
       access: 'signedIn',
       summary: 'Revoke an API token (one’s own, or anyone’s as an administrator)',
       tags: ['tokens'],
-      handler: ({ params, auth, req }) => accounts.revokeToken(db, auth!.user, idParam(params.id, 'The token'), req.ip),
+      handler: ({ params, auth, req }) => revokeToken(db, auth!.user, idParam(params.id, 'The token'), req.ip),
     },
     {
       method: 'get',

@@ -6,7 +6,7 @@
 import type { Knex } from 'knex';
 import type { Db } from '../db.js';
 import { conflict, forbidden, notFound } from '../lib/errors.js';
-import type { PublicUser } from '../schemas/auth.js';
+import type { PublicUser } from '../schemas/people.js';
 import type { Board, Panel, PanelBody, PanelData } from '../schemas/boards.js';
 export type { Board, Panel, PanelData };
 import { computeSpec, getStudy, type StudyResult } from './studies.js';

@@ -7,7 +7,7 @@ import type { Db } from '../db.js';
 import { buildExport, type ExportFile, type ExportTable } from '../importers/export.js';
 import { conflict } from '../lib/errors.js';
 import { CAUTION_LINE } from '../schemas/cautions.js';
-import type { PublicUser } from '../schemas/auth.js';
+import type { PublicUser } from '../schemas/people.js';
 import { alignByPeriod } from '../schemas/align.js';
 import { getSeries } from './catalogue/series.js';
 import { observationsOf, resolveVintage } from './catalogue/vintages.js';

@@ -17,7 +17,7 @@ import {
 } from '../analysis/index.js';
 import type { Db } from '../db.js';
 import { conflict, forbidden, HttpError, notFound } from '../lib/errors.js';
-import type { PublicUser } from '../schemas/auth.js';
+import type { PublicUser } from '../schemas/people.js';
 import type { CompareBody, CompareResult, CreateStudyBody, RealtimeResult, Study, StudyResult, StudySpec } from '../schemas/studies.js';
 export type { Study, StudyResult };
 import type { AnalysisPool } from '../workers/pool.js';

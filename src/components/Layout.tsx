@@ -1,5 +1,5 @@
 import { Navigate, NavLink, Outlet, useLocation } from 'react-router-dom';
-import type { Role } from '@schemas/auth';
+import type { Role } from '@schemas/people';
 import { StatusLine } from '@/features/system/StatusLine';
 import { hasRole, useMe, useSignOut } from '@/features/auth/api';
 import { Spinner } from './ui';

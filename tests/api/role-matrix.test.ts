@@ -7,7 +7,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { signedIn } from '../helpers/session.js';
-import { ROLES, type Role } from '../../server/schemas/auth.js';
+import { ROLES, type Role } from '../../server/schemas/people.js';
 
 type Who = Role | 'anon' | 'revoked';
 const ALL: Role[] = [...ROLES];

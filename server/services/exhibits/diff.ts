@@ -1,6 +1,6 @@
 /** What changed between two revisions (snapshots) of an exhibit: text, study settings and data. */
 import { conflict, notFound } from '../../lib/errors.js';
-import type { PublicUser } from '../../schemas/auth.js';
+import type { PublicUser } from '../../schemas/people.js';
 import type { ExhibitDiff, ExhibitDiffAnswer, Snapshot } from '../../schemas/exhibits.js';
 import { canSee, exhibitRow, latestRevision, type ExhibitDeps } from './read.js';
 

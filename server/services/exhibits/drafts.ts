@@ -1,5 +1,5 @@
 /** Drafting exhibits: created from a study or a board panel, edited by the author while a draft or returned. */
-import type { PublicUser } from '../../schemas/auth.js';
+import type { PublicUser } from '../../schemas/people.js';
 import type { CreateExhibitBody, UpdateExhibitBody } from '../../schemas/exhibits.js';
 import { conflict, forbidden, notFound } from '../../lib/errors.js';
 import { audit } from '../audit.js';

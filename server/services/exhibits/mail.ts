@@ -1,6 +1,6 @@
 /** Mail about exhibits under review. */
 import { composeMail } from '../../mail/mailer.js';
-import type { PublicUser } from '../../schemas/auth.js';
+import type { PublicUser } from '../../schemas/people.js';
 import type { ExhibitState } from '../../schemas/exhibits.js';
 import type { ExhibitDeps } from './read.js';
 

@@ -9,7 +9,7 @@
  * Only the author submits; only editors return, approve, publish or withdraw, and never their
  * own exhibit. Pure: review.ts makes the moves in the database.
  */
-import type { PublicUser } from '../../schemas/auth.js';
+import type { PublicUser } from '../../schemas/people.js';
 import type { ExhibitState } from '../../schemas/exhibits.js';
 
 export type Move = { to: ExhibitState; from: ExhibitState[]; by: 'author' | 'editor'; comment: 'required' | 'optional'; verb: string };

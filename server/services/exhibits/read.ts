@@ -8,7 +8,7 @@ import type { Config } from '../../config.js';
 import type { Db } from '../../db.js';
 import { HttpError, notFound } from '../../lib/errors.js';
 import type { Mailer } from '../../mail/mailer.js';
-import type { PublicUser } from '../../schemas/auth.js';
+import type { PublicUser } from '../../schemas/people.js';
 import type { Exhibit, ExhibitEvent, ExhibitState, ExhibitSummary, PublicExhibit, Snapshot } from '../../schemas/exhibits.js';
 import { getSettings } from '../settings.js';
 import { allowedMoves } from './moves.js';

@@ -1,7 +1,7 @@
 /** Moves of the review state machine (moves.ts) made in the database, and the Review desk queue. */
 import { badRequest, conflict, forbidden } from '../../lib/errors.js';
 import { randomToken } from '../../lib/secrets.js';
-import type { PublicUser, Role } from '../../schemas/auth.js';
+import type { PublicUser, Role } from '../../schemas/people.js';
 import type { ExhibitState } from '../../schemas/exhibits.js';
 import { audit } from '../audit.js';
 import { notify } from './mail.js';

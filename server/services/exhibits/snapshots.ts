@@ -7,7 +7,7 @@ import type { Db } from '../../db.js';
 import { conflict, HttpError } from '../../lib/errors.js';
 import { sha256 } from '../../lib/secrets.js';
 import { version } from '../../lib/version.js';
-import type { PublicUser } from '../../schemas/auth.js';
+import type { PublicUser } from '../../schemas/people.js';
 import { CAUTION_LINE } from '../../schemas/cautions.js';
 import type { Snapshot } from '../../schemas/exhibits.js';
 import type { StudyResult } from '../../schemas/studies.js';

@@ -2,7 +2,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { useNavigate, useParams } from 'react-router-dom';
 import { z } from 'zod';
-import { nameSchema, newPasswordSchema, ROLE_LABELS } from '@schemas/auth';
+import { nameSchema, newPasswordSchema, ROLE_LABELS } from '@schemas/people';
 import { ErrorNote, Field, Spinner } from '@/components/ui';
 import { AuthFrame } from './AuthFrame';
 import { useAcceptInvitation, useInvitationLookup } from './api';

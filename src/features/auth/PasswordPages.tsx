@@ -2,7 +2,7 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { z } from 'zod';
-import { emailSchema, newPasswordSchema } from '@schemas/auth';
+import { emailSchema, newPasswordSchema } from '@schemas/people';
 import { ErrorNote, Field } from '@/components/ui';
 import { AuthFrame } from './AuthFrame';
 import { useCompleteReset, useRequestReset } from './api';

@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
 import { Link } from 'react-router-dom';
-import { ROLE_LABELS, type Role } from '@schemas/auth';
+import { ROLE_LABELS, type Role } from '@schemas/people';
 import { hasRole, useMe } from './api';
 
 /** Shows its children only to the given roles; anyone else who follows a link gets a clear page. */

@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, ApiError } from '@/lib/api';
-import type { PublicUser, Role, SignInBody, AcceptInvitationBody } from '@schemas/auth';
+import type { SignInBody } from '@schemas/auth';
+import type { AcceptInvitationBody, PublicUser, Role } from '@schemas/people';
 
 export type { PublicUser, Role };
 

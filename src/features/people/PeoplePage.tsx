@@ -3,7 +3,7 @@ import type { ColumnDef } from '@tanstack/react-table';
 import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link } from 'react-router-dom';
-import { inviteSchema, ROLE_LABELS, ROLES, type InviteBody, type Role } from '@schemas/auth';
+import { inviteSchema, ROLE_LABELS, ROLES, type InviteBody, type Role } from '@schemas/people';
 import { DataTable } from '@/components/DataTable';
 import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';

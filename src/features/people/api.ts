@@ -1,37 +1,9 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { InviteBody, MailboxMessage, Role } from '@schemas/auth';
+import type { ApiToken, AuditRow, Invitation, InviteBody, MailboxMessage, Person, Role } from '@schemas/people';
 
-export interface Person {
-  id: number;
-  email: string;
-  name: string;
-  status: 'active' | 'deactivated';
-  roles: Role[];
-  lastSignInAt: string | null;
-  createdAt: string;
-}
-export interface Invitation {
-  id: number;
-  email: string;
-  roles: Role[];
-  invitedBy: string | null;
-  createdAt: string;
-  expiresAt: string;
-  expired: boolean;
-  sendCount: number;
-}
+export type { AuditRow, Invitation, Person };
 export type MailMessage = MailboxMessage;
-export interface AuditRow {
-  id: number;
-  at: string;
-  action: string;
-  actor: { id: number; email: string; name: string } | null;
-  targetType: string | null;
-  targetId: string | null;
-  details: unknown;
-  ip: string | null;
-}
 
 export const usePeople = () => useQuery({ queryKey: ['people'], queryFn: () => api<{ items: Person[] }>('/users').then((r) => r.items) });
 export const useInvitations = () => useQuery({ queryKey: ['invitations'], queryFn: () => api<{ items: Invitation[] }>('/invitations').then((r) => r.items) });
@@ -74,4 +46,16 @@ export function useUpdateSettings() {
     mutationFn: (body: { publicExhibitLinks: boolean }) => api('/settings', { method: 'PUT', json: body }),
     onSuccess: () => qc.invalidateQueries({ queryKey: ['settings'] }),
   });
+}
+
+/** One's own API tokens. */
+export const useTokens = () => useQuery({ queryKey: ['tokens'], queryFn: () => api<{ items: ApiToken[] }>('/tokens').then((r) => r.items) });
+
+export function useTokenMutations() {
+  const qc = useQueryClient();
+  const refresh = () => qc.invalidateQueries({ queryKey: ['tokens'] });
+  return {
+    create: useMutation({ mutationFn: (body: { name: string }) => api<{ id: number; token: string; name: string }>('/tokens', { method: 'POST', json: body }), onSuccess: refresh }),
+    revoke: useMutation({ mutationFn: (id: number) => api(`/tokens/${id}`, { method: 'DELETE' }), onSuccess: refresh }),
+  };
 }

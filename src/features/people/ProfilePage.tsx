@@ -1,30 +1,15 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useForm } from 'react-hook-form';
-import { createTokenSchema, ROLE_LABELS } from '@schemas/auth';
+import { createTokenSchema, ROLE_LABELS } from '@schemas/people';
 import { DataTable } from '@/components/DataTable';
 import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
-import { api } from '@/lib/api';
 import { useMe } from '@/features/auth/api';
-
-interface TokenRow {
-  id: number;
-  name: string;
-  prefix: string;
-  createdAt: string;
-  lastUsedAt: string | null;
-  revokedAt: string | null;
-}
+import { useTokenMutations, useTokens } from './api';
 
 export function ProfilePage() {
   const me = useMe();
-  const qc = useQueryClient();
-  const tokens = useQuery({ queryKey: ['tokens'], queryFn: () => api<{ items: TokenRow[] }>('/tokens').then((r) => r.items) });
-  const create = useMutation({
-    mutationFn: (body: { name: string }) => api<{ id: number; token: string; name: string }>('/tokens', { method: 'POST', json: body }),
-    onSuccess: () => qc.invalidateQueries({ queryKey: ['tokens'] }),
-  });
-  const revoke = useMutation({ mutationFn: (id: number) => api(`/tokens/${id}`, { method: 'DELETE' }), onSuccess: () => qc.invalidateQueries({ queryKey: ['tokens'] }) });
+  const tokens = useTokens();
+  const { create, revoke } = useTokenMutations();
   const form = useForm<{ name: string }>({ resolver: zodResolver(createTokenSchema), defaultValues: { name: '' } });
   if (!me.data) return <Spinner />;
   return (
