@@ -11,7 +11,6 @@ export default defineConfig({
     alias: {
       '@/': here('./src/'),
       '@schemas/': here('./server/schemas/'),
-      '@analysis/': here('./server/analysis/'),
     },
   },
   build: {

@@ -8,7 +8,6 @@ export default defineConfig({
     alias: {
       '@/': here('./src/'),
       '@schemas/': here('./server/schemas/'),
-      '@analysis/': here('./server/analysis/'),
     },
   },
   test: {

@@ -11,7 +11,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { formatPeriod, periodIndex } from '../server/analysis/periods.js';
-import type { Frequency } from '../server/analysis/frequency.js';
+import type { Frequency } from '../server/schemas/frequency.js';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const out = path.join(root, 'datasets', 'demo');

@@ -9,7 +9,7 @@ import { loadUser } from '../server/services/people/users.js';
 import { addPanel, createBoard } from '../server/services/boards.js';
 import { createExhibit } from '../server/services/exhibits/drafts.js';
 import { transition } from '../server/services/exhibits/review.js';
-import { createStudy } from '../server/services/studies.js';
+import { createStudy } from '../server/services/studies/studies.js';
 
 export async function seedDemoWork(db: Db, people: Record<string, number>, config: Config) {
   const economist = (await loadUser(db, people['economist@demo.test']))!;

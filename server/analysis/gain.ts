@@ -1,24 +1,17 @@
 /**
- * Gain (the modulus of the frequency response) of each linear method's *cycle* filter, over a grid
- * of periods, for charts. At angular frequency ω = 2π/P:
- *
- *   hp, whittaker (order d):   G(ω) = λ·(2 − 2cos ω)^d / (1 + λ·(2 − 2cos ω)^d)   (two-sided, infinite sample)
- *   boosted-hp, m iterations:  G(ω)^m of the HP cycle gain
- *   hp-one-sided:              |1 − Σ_j w_j e^{−iωj}| with w the end-point weights of a long sample
- *   baxter-king:               |Σ_j a_j cos(jω)|
- *   christiano-fitzgerald:     |Σ_j w_j e^{−iωj}| with the weights of the middle observation
- *   hamilton:                  |1 − Σ_j β_j e^{−iω(h+j−1)}| with the estimated (or random-walk) β
- *   l1-trend:                  not linear: no gain
+ * Pieces of gain functions (the modulus of a filter's frequency response at ω = 2π/P): the grid
+ * of periods, the Whittaker–Henderson cycle gain, the gain of a set of weights, and the end-point
+ * weights of the two-sided HP filter. Each linear method states its own gain in
+ * server/analysis/methods/<id>.ts; gain-curve.ts draws it over the grid.
  */
-import { baxterKingWeights } from './bandpass.js';
-import { cutoffPeriod, type Method } from './frequency.js';
 import { factorToeplitz, solveFactored } from './banded.js';
 import { applyDT } from './differences.js';
 
+/** A method's gain over a grid of periods, for charts. */
 export interface GainCurve {
   periods: number[];
   gain: number[];
-  /** Period where the trend gain is one half (λ-based methods), or the band edges. */
+  /** Period where the trend gain is one half (λ-based methods). */
   cutoff: number | null;
   band?: [number, number];
   note?: string;
@@ -33,12 +26,14 @@ export function periodGrid(maxPeriod: number, points = 160): number[] {
   return out;
 }
 
-const hpCycleGain = (lambda: number, order: number, omega: number) => {
+/** Cycle gain of the Whittaker–Henderson smoother of `order` (2: Hodrick–Prescott): λx/(1 + λx), x = (2 − 2cos ω)^d. */
+export function hpCycleGain(lambda: number, order: number, omega: number): number {
   const x = lambda * Math.pow(2 - 2 * Math.cos(omega), order);
   return x / (1 + x);
-};
+}
 
-function complexGain(weights: ArrayLike<number>, omega: number, offset = 0, oneMinus = false): number {
+/** |Σⱼ wⱼ e^{−iω(j+offset)}|, or |1 − Σⱼ …| with `oneMinus`. */
+export function complexGain(weights: ArrayLike<number>, omega: number, offset = 0, oneMinus = false): number {
   let re = 0;
   let im = 0;
   for (let j = 0; j < weights.length; j++) {
@@ -64,102 +59,4 @@ export function hpEndpointWeights(lambda: number, n: number): Float64Array {
   const w = new Float64Array(n);
   for (let j = 0; j < n; j++) w[j] = (j === 0 ? 1 : 0) - c[n - 1 - j];
   return w;
-}
-
-export interface GainInput {
-  method: Method;
-  params: Record<string, unknown>;
-  /** Series length, for the sample-dependent filters (CF). */
-  n?: number;
-  /** Hamilton coefficients [β₀, β₁, …] when estimated. */
-  coefficients?: number[];
-  iterationsUsed?: number;
-  maxPeriod?: number;
-}
-
-export function gainCurve(input: GainInput): GainCurve {
-  const { method, params } = input;
-  const lambda = Number(params.lambda);
-  const order = Number(params.order ?? 2);
-  const cutoff = method === 'hp' || method === 'hp-one-sided' || method === 'boosted-hp' ? cutoffPeriod(lambda, 2) : method === 'whittaker' ? cutoffPeriod(lambda, order) : null;
-  const high = Number(params.high);
-  const maxPeriod = input.maxPeriod ?? Math.min(1000, Math.max(64, (cutoff ?? (Number.isFinite(high) ? high : 40)) * 3));
-  const periods = periodGrid(maxPeriod);
-  const omegas = periods.map((p) => (2 * Math.PI) / p);
-  let gain: number[];
-  let note: string | undefined;
-  let band: [number, number] | undefined;
-  switch (method) {
-    case 'hp':
-      gain = omegas.map((w) => hpCycleGain(lambda, 2, w));
-      break;
-    case 'whittaker':
-      gain = omegas.map((w) => hpCycleGain(lambda, order, w));
-      break;
-    case 'boosted-hp': {
-      const m = input.iterationsUsed ?? Number(params.iterations ?? 1);
-      gain = omegas.map((w) => Math.pow(hpCycleGain(lambda, 2, w), m));
-      note = `after ${m} iteration${m === 1 ? '' : 's'}`;
-      break;
-    }
-    case 'hp-one-sided': {
-      const n = Math.min(4000, Math.max(400, Math.ceil(20 * (cutoff ?? 40))));
-      const w = hpEndpointWeights(lambda, n);
-      gain = omegas.map((om) => complexGain(w, om, 0, true));
-      note = 'gain of the end-point (real-time) filter; it also shifts the phase';
-      break;
-    }
-    case 'baxter-king': {
-      const k = Number(params.k);
-      const w = baxterKingWeights(Number(params.low), high, k);
-      gain = omegas.map((om) => {
-        let s = 0;
-        for (let j = -k; j <= k; j++) s += w[j + k] * Math.cos(om * j);
-        return Math.abs(s);
-      });
-      band = [Number(params.low), high];
-      break;
-    }
-    case 'christiano-fitzgerald': {
-      const n = Math.max(3, Math.min(input.n ?? 200, 2000));
-      const a = (2 * Math.PI) / high;
-      const b = (2 * Math.PI) / Number(params.low);
-      const t = Math.floor(n / 2);
-      // Weights of the middle observation, on y_{t−j} for j = −(n−1−t)…t, as in bandpass.ts.
-      gain = omegas.map((om) => {
-        let re = 0;
-        let im = 0;
-        const add = (lag: number, wgt: number) => {
-          re += wgt * Math.cos(om * lag);
-          im -= wgt * Math.sin(om * lag);
-        };
-        const B = (j: number) => (j === 0 ? (b - a) / Math.PI : (Math.sin(b * j) - Math.sin(a * j)) / (Math.PI * j));
-        let sumUp = 0;
-        for (let j = 1; j <= n - t - 2; j++) sumUp += B(j);
-        let sumDown = 0;
-        for (let j = 1; j <= t - 1; j++) sumDown += B(j);
-        add(0, B(0));
-        for (let j = 1; j <= n - t - 2; j++) add(-j, B(j));
-        for (let j = 1; j <= t - 1; j++) add(j, B(j));
-        const Bt = -0.5 * B(0) - sumUp;
-        add(-(n - 1 - t), Bt);
-        add(t, -B(0) - sumUp - sumDown - Bt);
-        return Math.hypot(re, im);
-      });
-      band = [Number(params.low), high];
-      note = `weights of the middle observation of a ${n}-period sample`;
-      break;
-    }
-    case 'hamilton': {
-      const h = Number(params.h);
-      const p = Number(params.p);
-      const beta = input.coefficients?.slice(1) ?? [1, ...new Array(p - 1).fill(0)];
-      gain = omegas.map((om) => complexGain(beta, om, h, true));
-      note = input.coefficients ? 'with the estimated coefficients' : 'for a random walk: the h-period change';
-      break;
-    }
-    case 'l1-trend':
-      return { periods, gain: [], cutoff: null, note: 'ℓ1 trend filtering is not a linear filter, so it has no gain function.' };
-  }
-  return { periods, gain, cutoff: cutoff ?? null, band, note };
 }

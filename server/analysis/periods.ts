@@ -2,7 +2,7 @@
  * Periods in the SDMX TIME_PERIOD forms: annual `2024`, quarterly `2024-Q1`, monthly `2024-01`.
  * Internally a period is an integer index: year·s + (sub-period − 1), s periods a year.
  */
-import { PERIODS_PER_YEAR, type Frequency } from './frequency.js';
+import { PERIODS_PER_YEAR, type Frequency } from '../schemas/frequency.js';
 
 const PATTERNS: Record<Frequency, RegExp> = {
   A: /^(\d{4})$/,

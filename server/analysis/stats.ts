@@ -3,7 +3,7 @@
  * of real-time estimates. NaN marks a missing value everywhere; statistics use the periods where
  * every series involved has a value.
  */
-import type { Frequency } from './frequency.js';
+import type { Frequency } from '../schemas/frequency.js';
 
 function pairs(a: ArrayLike<number>, b: ArrayLike<number>, lag = 0): [number[], number[]] {
   // Pairs (a_t, b_{t+lag}).

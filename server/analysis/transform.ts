@@ -1,11 +1,5 @@
-/** Transforms applied before decomposing: none, natural log, or 100 × natural log (cycle in percent). */
-export type Transform = 'none' | 'log' | 'log100';
-
-export const TRANSFORM_LABELS: Record<Transform, string> = {
-  none: 'levels',
-  log: 'natural log',
-  log100: '100 × natural log (cycle in % of trend)',
-};
+/** Transforms applied before decomposing (server/schemas/decompose.ts names them). */
+import type { Transform } from '../schemas/decompose.js';
 
 /** Returns the transformed copy, or the index of the first non-positive value for a log. */
 export function applyTransform(values: ArrayLike<number>, transform: Transform): { ok: Float64Array } | { badIndex: number } {

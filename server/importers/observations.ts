@@ -2,7 +2,7 @@
  * From a table of cells to the observations of one or more series, with every problem found by
  * row and column. Errors stop a load; warnings are shown in the preview and do not.
  */
-import type { Frequency } from '../analysis/frequency.js';
+import type { Frequency } from '../schemas/frequency.js';
 import { formatPeriod, periodIndex, readPeriod } from '../analysis/periods.js';
 import { unprocessable, type FileProblem } from '../lib/errors.js';
 import { MAX_CELL, type Table } from './table.js';

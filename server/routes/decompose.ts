@@ -1,15 +1,19 @@
+import { z } from 'zod';
+import { describeMethods, findMethod, gainCurve, methodIds, resolveParams } from '../analysis/index.js';
+import { methodIdEnum } from '../analysis/methods/index.js';
 import type { AppDeps } from '../deps.js';
-import { lambdaPresets, cutoffPeriod, defaultParams, gainCurve, lambdaForCutoff, METHOD_NAMES, METHODS, TWO_SIDED, type Frequency, type Method } from '../analysis/index.js';
+import { badRequest } from '../lib/errors.js';
 import type { RouteSpec } from '../lib/http.js';
-import { batchRequestSchema, decomposeRequestSchema, frequencySchema, methodSchema } from '../schemas/decompose.js';
+import { streamNdjson, wantsStream } from '../lib/stream.js';
+import { decomposeSchemas } from '../schemas/decompose.js';
+import { frequencySchema } from '../schemas/frequency.js';
+import { cutoffPeriod, lambdaForCutoff } from '../schemas/methods.js';
 import { batchDecompose, decomposeOne } from '../services/decompose.js';
 import type { RawItem } from '../workers/batch-types.js';
-import { paramSchemas } from '../schemas/decompose.js';
-import { z } from 'zod';
-import { badRequest } from '../lib/errors.js';
-import { streamNdjson, wantsStream } from '../lib/stream.js';
 
 export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
+  const { decomposeRequestSchema, batchRequestSchema } = decomposeSchemas(methodIdEnum());
+  const batch = { db: deps.db, pool: deps.pool, databaseUrl: deps.config.databaseUrl, cacheValues: deps.config.observationCacheValues };
   return [
     {
       method: 'post',
@@ -29,8 +33,7 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
       body: batchRequestSchema,
       raw: true,
       handler: async ({ body, req, res }) => {
-        const ctx = { db: deps.db, pool: deps.pool, databaseUrl: deps.config.databaseUrl, cacheValues: deps.config.observationCacheValues };
-        const run = (progress?: (done: number, total: number) => void) => batchDecompose(ctx, body.items as never as RawItem[], body.output, progress);
+        const run = (progress?: (done: number, total: number) => void) => batchDecompose(batch, body.items as never as RawItem[], body.output, progress);
         if (wantsStream(req)) {
           await streamNdjson(res, async (send) => {
             const strings = await run((done, total) => send({ type: 'progress', phase: 'decomposing', done, total }));
@@ -46,18 +49,9 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
       method: 'get',
       path: '/methods',
       access: 'signedIn',
-      summary: 'The methods, their conventional parameters by frequency and the λ presets',
+      summary: 'The methods: their parameters (kind, bounds, labels), conventional values by frequency, and the λ presets',
       tags: ['analysis'],
-      handler: () => ({
-        methods: METHODS.map((m) => ({
-          id: m,
-          name: METHOD_NAMES[m],
-          twoSided: TWO_SIDED[m],
-          parameters: Object.keys(paramSchemas[m].shape),
-          defaults: Object.fromEntries((['A', 'Q', 'M'] as Frequency[]).map((f) => [f, defaultParams(m, f)])),
-        })),
-        presets: Object.fromEntries((['A', 'Q', 'M'] as Frequency[]).map((f) => [f, lambdaPresets(f).map((p) => ({ ...p, cutoffPeriod: cutoffPeriod(p.lambda) }))])),
-      }),
+      handler: () => describeMethods(),
     },
     {
       method: 'get',
@@ -66,7 +60,7 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Gain of a method’s cycle filter over a grid of periods, with its cut-off',
       tags: ['analysis'],
       query: z.object({
-        method: methodSchema,
+        method: z.enum(methodIds() as [string, ...string[]]),
         frequency: frequencySchema.default('Q'),
         params: z.string().max(2000).optional(),
         n: z.coerce.number().int().min(3).max(100000).optional(),
@@ -78,9 +72,9 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
         } catch {
           throw badRequest('invalid_params', 'params must be a JSON object, for example {"lambda":1600}.');
         }
-        const method = query.method as Method;
-        const filled = { ...defaultParams(method, query.frequency as Frequency), ...params };
-        return gainCurve({ method, params: filled, n: query.n });
+        // A method without a gain answers its note whatever the parameters.
+        const checked = findMethod(query.method)!.gain ? resolveParams(query.method, query.frequency, params) : params;
+        return gainCurve({ method: query.method, params: checked, n: query.n });
       },
     },
     {

@@ -1,15 +1,19 @@
 import { z } from 'zod';
+import { methodIdEnum } from '../analysis/methods/index.js';
 import type { AppDeps } from '../deps.js';
 import { idParam, sendFile, type RouteSpec } from '../lib/http.js';
-import { streamNdjson, wantsStream } from '../lib/stream.js';
-import { compareSchema, createStudySchema, studySpecSchema, updateStudySchema } from '../schemas/studies.js';
-import * as studies from '../services/studies.js';
+import { answerWithProgress } from '../lib/stream.js';
+import { studySchemas } from '../schemas/studies.js';
 import { studyExport } from '../services/exports.js';
+import { realtimeAnalysis } from '../services/studies/realtime.js';
+import { compare, computeSpec, studyResult } from '../services/studies/results.js';
+import { createStudy, deleteStudy, duplicateStudy, getStudy, listStudies, updateStudy } from '../services/studies/studies.js';
 
 const ECONOMIST = ['economist'] as const;
 
 export function studyRoutes(deps: AppDeps): RouteSpec[] {
   const { db } = deps;
+  const { compareSchema, createStudySchema, studySpecSchema, updateStudySchema } = studySchemas(methodIdEnum());
   return [
     {
       method: 'get',
@@ -19,7 +23,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['studies'],
       query: z.object({ mine: z.string().optional(), seriesId: z.coerce.number().int().positive().optional(), method: z.string().max(32).optional(), q: z.string().max(100).optional() }),
       handler: async ({ query, auth }) => ({
-        items: await studies.listStudies(db, { owner: query.mine === '1' ? auth!.user.id : undefined, seriesId: query.seriesId, method: query.method, q: query.q }),
+        items: await listStudies(db, { owner: query.mine === '1' ? auth!.user.id : undefined, seriesId: query.seriesId, method: query.method, q: query.q }),
       }),
     },
     {
@@ -30,7 +34,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['studies'],
       body: createStudySchema,
       status: 201,
-      handler: ({ body, auth, req }) => studies.createStudy(db, auth!.user, body, req.ip),
+      handler: ({ body, auth, req }) => createStudy(db, auth!.user, body, req.ip),
     },
     {
       method: 'post',
@@ -39,7 +43,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'The result a study would give, without saving it (the study page recomputes with this)',
       tags: ['studies'],
       body: studySpecSchema,
-      handler: ({ body }) => studies.computeSpec(db, body),
+      handler: ({ body }) => computeSpec(db, body),
     },
     {
       method: 'post',
@@ -48,7 +52,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Cycles of several methods or series on aligned periods, with cross-correlations against a reference',
       tags: ['studies'],
       body: compareSchema,
-      handler: ({ body }) => studies.compare(db, body),
+      handler: ({ body }) => compare(db, body),
     },
     {
       method: 'get',
@@ -56,7 +60,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'A study',
       tags: ['studies'],
-      handler: ({ params }) => studies.getStudy(db, idParam(params.id, 'The study')),
+      handler: ({ params }) => getStudy(db, idParam(params.id, 'The study')),
     },
     {
       method: 'patch',
@@ -65,7 +69,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Change one’s own study',
       tags: ['studies'],
       body: updateStudySchema,
-      handler: ({ params, body, auth }) => studies.updateStudy(db, auth!.user, idParam(params.id, 'The study'), body),
+      handler: ({ params, body, auth }) => updateStudy(db, auth!.user, idParam(params.id, 'The study'), body),
     },
     {
       method: 'delete',
@@ -73,7 +77,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       access: ECONOMIST,
       summary: 'Delete one’s own study',
       tags: ['studies'],
-      handler: ({ params, auth, req }) => studies.deleteStudy(db, auth!.user, idParam(params.id, 'The study'), req.ip),
+      handler: ({ params, auth, req }) => deleteStudy(db, auth!.user, idParam(params.id, 'The study'), req.ip),
     },
     {
       method: 'post',
@@ -82,7 +86,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Copy a study into one’s own',
       tags: ['studies'],
       status: 201,
-      handler: ({ params, auth }) => studies.duplicateStudy(db, auth!.user, idParam(params.id, 'The study')),
+      handler: ({ params, auth }) => duplicateStudy(db, auth!.user, idParam(params.id, 'The study')),
     },
     {
       method: 'get',
@@ -90,7 +94,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'The decomposition of the study’s data, with the vintage used, statistics, turning points and gain',
       tags: ['studies'],
-      handler: ({ params }) => studies.studyResult(db, idParam(params.id, 'The study')),
+      handler: ({ params }) => studyResult(db, idParam(params.id, 'The study')),
     },
     {
       method: 'post',
@@ -101,14 +105,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       raw: true,
       handler: async ({ params, req, res }) => {
         const id = idParam(params.id, 'The study');
-        if (wantsStream(req)) {
-          await streamNdjson(res, async (send) => {
-            const result = await studies.realtimeAnalysis(db, deps.pool, id, (phase, done, total) => send({ type: 'progress', phase, done, total }));
-            send({ type: 'result', result });
-          });
-          return;
-        }
-        res.json(await studies.realtimeAnalysis(db, deps.pool, id));
+        await answerWithProgress(req, res, 200, (onProgress) => realtimeAnalysis(db, deps.pool, id, onProgress));
       },
     },
     {

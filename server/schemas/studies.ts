@@ -1,36 +1,39 @@
 /** Bodies of the Studies routes, shared with the study form. */
 import { z } from 'zod';
-import { methodSchema, transformSchema } from './decompose.js';
-import type { Method } from '../analysis/frequency.js';
+import { methodIdSchema, transformSchema, type Transform } from './decompose.js';
+import type { Frequency } from './frequency.js';
 
 export const vintagePinSchema = z.union([z.number().int().positive(), z.literal('latest')], { error: 'The vintage is a number (1, 2, …) or "latest".' });
 
-export const studySpecSchema = z.object({
-  seriesId: z.number({ error: 'Choose a series.' }).int().positive(),
-  vintage: vintagePinSchema.default('latest'),
-  transform: transformSchema.default('none'),
-  method: methodSchema,
-  params: z.record(z.string(), z.unknown()).default({}),
-});
+/** The study bodies, with `method` checked by the schema given (the server passes the registry's ids). */
+export function studySchemas(method: z.ZodType<string> = methodIdSchema) {
+  const studySpecSchema = z.object({
+    seriesId: z.number({ error: 'Choose a series.' }).int().positive(),
+    vintage: vintagePinSchema.default('latest'),
+    transform: transformSchema.default('none'),
+    method,
+    params: z.record(z.string(), z.unknown()).default({}),
+  });
+  const createStudySchema = studySpecSchema.extend({
+    title: z.string({ error: 'Give the study a title.' }).trim().min(1, 'Give the study a title.').max(200, 'A title has at most 200 characters.'),
+    notes: z.string().max(10_000, 'Notes have at most 10 000 characters.').optional(),
+  });
+  const updateStudySchema = createStudySchema.partial().refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
+  const compareSchema = z.object({
+    items: z
+      .array(studySpecSchema.extend({ label: z.string().max(100).optional() }))
+      .min(1, 'Add at least one line to compare.')
+      .max(12, 'Compare at most 12 lines at once.'),
+    /** Index of the item the cross-correlations are measured against. */
+    reference: z.number().int().min(0).default(0),
+    maxLag: z.number().int().min(0).max(24).default(8),
+  });
+  return { studySpecSchema, createStudySchema, updateStudySchema, compareSchema };
+}
+
+export const { studySpecSchema, createStudySchema, updateStudySchema, compareSchema } = studySchemas();
 export type StudySpec = z.infer<typeof studySpecSchema>;
-
-export const createStudySchema = studySpecSchema.extend({
-  title: z.string({ error: 'Give the study a title.' }).trim().min(1, 'Give the study a title.').max(200, 'A title has at most 200 characters.'),
-  notes: z.string().max(10_000, 'Notes have at most 10 000 characters.').optional(),
-});
 export type CreateStudyBody = z.infer<typeof createStudySchema>;
-
-export const updateStudySchema = createStudySchema.partial().refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
-
-export const compareSchema = z.object({
-  items: z
-    .array(studySpecSchema.extend({ label: z.string().max(100).optional() }))
-    .min(1, 'Add at least one line to compare.')
-    .max(12, 'Compare at most 12 lines at once.'),
-  /** Index of the item the cross-correlations are measured against. */
-  reference: z.number().int().min(0).default(0),
-  maxLag: z.number().int().min(0).max(24).default(8),
-});
 export type CompareBody = z.infer<typeof compareSchema>;
 
 /** A saved study as the API answers it. */
@@ -42,7 +45,7 @@ export interface Study {
   series: { code: string; title: string; frequency: 'A' | 'Q' | 'M'; unit: string };
   vintage: number | 'latest';
   transform: 'none' | 'log' | 'log100';
-  method: Method;
+  method: string;
   params: Record<string, unknown>;
   owner: { id: number; name: string };
   createdAt: string;
@@ -51,14 +54,18 @@ export interface Study {
 
 /** A study's decomposition as POST /studies/preview and GET /studies/:id/result answer it (the latter adds `study`). */
 export interface StudyResult {
-  method: Method;
+  method: string;
   params: Record<string, unknown>;
-  transform: 'none' | 'log' | 'log100';
-  frequency: 'A' | 'Q' | 'M';
+  transform: Transform;
+  frequency: Frequency;
   periods: string[];
   input: (number | null)[];
   trend: (number | null)[];
   cycle: (number | null)[];
+  /** A method's extra output series (for example cycleLower, cycleUpper), on `periods`. */
+  extra?: Record<string, (number | null)[]>;
+  /** Periods past the last observation (forecasts), from index `from`, and their label on charts. */
+  extension?: { from: number; periods: number; label: string };
   warnings: string[];
   diagnostics: Record<string, unknown>;
   vintage: number;
@@ -86,7 +93,7 @@ export interface CompareResult {
     label: string;
     seriesId: number;
     code: string;
-    method: Method;
+    method: string;
     params: Record<string, unknown>;
     transform: string;
     vintage: number;
@@ -101,7 +108,7 @@ export interface CompareResult {
 
 /** POST /studies/:id/realtime: real-time against final estimates, and the quasi-real-time variant. */
 export interface RealtimeResult {
-  study: { id: number; title: string; method: Method; params: Record<string, unknown>; transform: string };
+  study: { id: number; title: string; method: string; params: Record<string, unknown>; transform: string };
   series: { id: number; code: string; unit: string; frequency: 'A' | 'Q' | 'M' };
   unitOfCycle: string;
   methodLine: string;

@@ -9,7 +9,9 @@ import { conflict, forbidden, notFound } from '../lib/errors.js';
 import type { PublicUser } from '../schemas/people.js';
 import type { Board, Panel, PanelBody, PanelData } from '../schemas/boards.js';
 export type { Board, Panel, PanelData };
-import { computeSpec, getStudy, type StudyResult } from './studies.js';
+import type { StudyResult } from '../schemas/studies.js';
+import { computeSpec } from './studies/results.js';
+import { getStudy } from './studies/studies.js';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
 

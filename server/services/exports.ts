@@ -12,7 +12,7 @@ import { alignByPeriod } from '../schemas/align.js';
 import { getSeries } from './catalogue/series.js';
 import { observationsOf, resolveVintage } from './catalogue/vintages.js';
 import { getExhibit, publicExhibit, type ExhibitDeps } from './exhibits/read.js';
-import { studyResult } from './studies.js';
+import { studyResult } from './studies/results.js';
 
 export async function vintageExport(db: Db, seriesId: number, which: number | 'latest', format: 'csv' | 'xlsx' | 'sdmx-csv'): Promise<ExportFile> {
   const series = await getSeries(db, seriesId);

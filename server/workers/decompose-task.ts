@@ -4,8 +4,10 @@
  */
 import { AnalysisError, cycleStatistics, decompose, toJsonResponse } from '../analysis/index.js';
 import { createDb, type Db } from '../db.js';
+import { finiteRecord } from '../lib/numbers.js';
 import { resolveItems } from '../services/batch-items.js';
 import { configureObservationCache } from '../services/catalogue/stored-values.js';
+import type { BatchSummaryItem } from '../schemas/decompose.js';
 import type { BatchItem, BatchTask, StoredTask } from './batch-types.js';
 
 export function runBatchChunk(task: BatchTask): string[] {
@@ -17,15 +19,16 @@ export function runBatchChunk(task: BatchTask): string[] {
         let last = r.cycle.length - 1;
         while (last >= 0 && Number.isNaN(r.cycle[last])) last--;
         const stats = cycleStatistics(r.cycle, r.frequency);
-        return JSON.stringify({
+        const summary: BatchSummaryItem = {
           ...head,
           method: r.method,
           params: r.params,
           transform: r.transform,
           last: last >= 0 ? { period: r.periods?.[last] ?? null, index: last, trend: r.trend[last], cycle: r.cycle[last] } : null,
-          statistics: jsonSafe(stats),
+          statistics: finiteRecord(stats),
           warnings: r.warnings,
-        });
+        };
+        return JSON.stringify(summary);
       }
       return JSON.stringify({ ...head, ...toJsonResponse(r) });
     } catch (error) {
@@ -33,11 +36,6 @@ export function runBatchChunk(task: BatchTask): string[] {
       return JSON.stringify({ ...head, error: e });
     }
   });
-}
-
-/** NaN and infinities become null, as everywhere in the API. */
-export function jsonSafe<T>(value: T): T {
-  return JSON.parse(JSON.stringify(value, (_k, v) => (typeof v === 'number' && !Number.isFinite(v) ? null : v)));
 }
 
 let workerDb: Db | null = null;

@@ -1,4 +1,5 @@
 import { Navigate, NavLink, Outlet, useLocation } from 'react-router-dom';
+import { CAUTIONS } from '@schemas/cautions';
 import type { Role } from '@schemas/people';
 import { StatusLine } from '@/features/system/StatusLine';
 import { hasRole, useMe, useSignOut } from '@/features/auth/api';
@@ -68,7 +69,7 @@ export function Layout() {
       <footer className="border-t border-hairline">
         <div className="mx-auto flex max-w-7xl items-center justify-between px-6 py-2">
           <StatusLine />
-          <span className="text-xs text-ink-faint">Estimates are inputs to judgement, not a basis for decisions on their own.</span>
+          <span className="text-xs text-ink-faint">{CAUTIONS[2]}</span>
         </div>
       </footer>
     </div>

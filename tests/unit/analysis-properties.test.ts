@@ -1,16 +1,8 @@
 /** Properties of the estimators that hold whatever the data, each named as it is checked. */
 import { Matrix, solve } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import {
-  AnalysisError,
-  cutoffPeriod,
-  decompose,
-  gainCurve,
-  lambdaForCutoff,
-  ravnUhlig,
-  reliability,
-  turningPoints,
-} from '../../server/analysis/index.js';
+import { AnalysisError, decompose, gainCurve, reliability, turningPoints } from '../../server/analysis/index.js';
+import { cutoffPeriod, lambdaForCutoff, ravnUhlig } from '../../server/schemas/methods.js';
 import { christianoFitzgerald, baxterKingWeights } from '../../server/analysis/bandpass.js';
 import { whittakerTrendWeighted, hpOneSidedTrendWeighted } from '../../server/analysis/whittaker.js';
 import { stencil } from '../../server/analysis/differences.js';

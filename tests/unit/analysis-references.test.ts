@@ -102,7 +102,7 @@ describe('Hamilton regression filter — against numpy.linalg.lstsq', () => {
       const r = decompose({ frequency: 'Q', values: c.y, method: 'hamilton', params: { h: c.h, p: c.p } });
       expect(relativeError(r.trend, c.trend)).toBeLessThan(TOL);
       expect(relativeError(r.cycle, c.cycle)).toBeLessThan(1e-7);
-      expect(relativeError(r.diagnostics.coefficients!, c.coefficients)).toBeLessThan(1e-6);
+      expect(relativeError(r.diagnostics.coefficients as number[], c.coefficients)).toBeLessThan(1e-6);
       // First h + p − 1 periods have no value.
       expect(Array.from(r.cycle.slice(0, c.h + c.p - 1)).every(Number.isNaN)).toBe(true);
       expect(Number.isFinite(r.cycle[c.h + c.p - 1])).toBe(true);
@@ -115,7 +115,7 @@ describe('boosted HP — against iterated statsmodels hpfilter and a dense-matri
     it(`${c.input}: BIC stops after ${c.iterationsUsed} iterations with the same cycle`, () => {
       const r = decompose({ frequency: 'Q', values: c.y, method: 'boosted-hp', params: { lambda: c.lambda } });
       expect(r.diagnostics.iterationsUsed).toBe(c.iterationsUsed);
-      expect(relativeError(r.diagnostics.criterion!, c.criterion)).toBeLessThan(1e-9);
+      expect(relativeError(r.diagnostics.criterion as number[], c.criterion)).toBeLessThan(1e-9);
       expect(relativeError(r.cycle, c.cycle)).toBeLessThan(TOL);
     });
     it(`${c.input}: three fixed iterations`, () => {
@@ -141,7 +141,7 @@ describe('ℓ1 trend filtering — optimality and scipy lsq_linear on the dual',
       expect(r.diagnostics.converged).toBe(true);
       // Our objective is no worse than the reference's, and within the reported duality gap of it.
       expect(objective(x)).toBeLessThanOrEqual(c.objective + 1e-7 * c.objective);
-      expect(Math.abs(objective(x) - c.objective)).toBeLessThanOrEqual(r.diagnostics.dualityGap! + 1e-8 * c.objective);
+      expect(Math.abs(objective(x) - c.objective)).toBeLessThanOrEqual((r.diagnostics.dualityGap as number) + 1e-8 * c.objective);
       expect(relativeError(x, c.trend)).toBeLessThan(1e-6);
       // Optimality: ν = (y − x) satisfies Dᵀν = y − x with |ν| ≤ λ, and ν = ±λ where the kink is real.
       // Recover ν from y − x = Dᵀν by back substitution on the first rows of Dᵀ.

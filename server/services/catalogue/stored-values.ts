@@ -8,7 +8,7 @@ import { formatPeriod, periodIndex } from '../../analysis/periods.js';
 import { fastQuery, type Db } from '../../db.js';
 import { HttpError, notFound } from '../../lib/errors.js';
 import type { Series, Vintage } from '../../schemas/catalogue.js';
-import type { Frequency } from '../../analysis/frequency.js';
+import type { Frequency } from '../../schemas/frequency.js';
 import { toSeries, toVintage } from './rows.js';
 import { vintageWhat } from './vintages.js';
 

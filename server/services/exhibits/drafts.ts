@@ -4,7 +4,8 @@ import type { CreateExhibitBody, UpdateExhibitBody } from '../../schemas/exhibit
 import { conflict, forbidden, notFound } from '../../lib/errors.js';
 import { audit } from '../audit.js';
 import { panelById, panelData } from '../boards.js';
-import { computeSpec, getStudy } from '../studies.js';
+import { computeSpec } from '../studies/results.js';
+import { getStudy } from '../studies/studies.js';
 import { canSee, exhibitRow, getExhibit, type ExhibitDeps } from './read.js';
 
 export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: CreateExhibitBody, ip?: string) {

@@ -13,7 +13,8 @@ import type { Snapshot } from '../../schemas/exhibits.js';
 import type { StudyResult } from '../../schemas/studies.js';
 import type { PanelData } from '../../schemas/boards.js';
 import { panelById, panelData } from '../boards.js';
-import { computeSpec, getStudy } from '../studies.js';
+import { computeSpec } from '../studies/results.js';
+import { getStudy } from '../studies/studies.js';
 async function vintageChecksum(db: Db, seriesId: number, number: number) {
   return (await db('vintages').where({ series_id: seriesId, number }).first('checksum'))?.checksum ?? '';
 }

@@ -35,6 +35,33 @@ export function endOfSampleArea(periods: string[], values: Num[], k: number) {
   };
 }
 
+/** Periods a method added past the last observation (forecasts), shaded and labelled with the method's word. */
+export interface ExtensionMark {
+  from: number;
+  periods: number;
+  label: string;
+}
+
+/** The end-of-sample shading and the extension's, as one mark area. */
+function markAreas(periods: string[], values: Num[], shadeLast: number | undefined, extension: ExtensionMark | undefined) {
+  const end = shadeLast ? endOfSampleArea(periods, extension ? values.slice(0, extension.from) : values, shadeLast) : undefined;
+  if (!extension) return end;
+  const ext = [
+    { xAxis: extension.from, itemStyle: { color: 'rgba(74,90,112,0.10)' }, label: { show: true, position: 'insideTop', color: COLORS.inkSoft, fontFamily: FONT, fontSize: 11, formatter: extension.label } },
+    { xAxis: Math.min(periods.length - 1, extension.from + extension.periods - 1) },
+  ];
+  return { ...(end ?? { silent: true, itemStyle: { color: 'rgba(162,59,42,0.07)' } }), data: [...(end?.data ?? []), ext] };
+}
+
+/** A method's further series (bands) as thin dashed lines. */
+const extraLines = (extra: NamedValues[] | undefined) =>
+  (extra ?? []).map((e) => ({ name: e.name, type: 'line', data: e.values, showSymbol: false, lineStyle: { width: 1, type: 'dashed', color: COLORS.inkSoft }, itemStyle: { color: COLORS.inkSoft } }));
+
+export interface NamedValues {
+  name: string;
+  values: Num[];
+}
+
 export function levelChart(opts: { periods: string[]; values: Num[]; name?: string; unit?: string }) {
   return {
     ...baseOption(),
@@ -46,7 +73,7 @@ export function levelChart(opts: { periods: string[]; values: Num[]; name?: stri
   };
 }
 
-export function trendChart(opts: { periods: string[]; input: Num[]; trend: Num[]; unit?: string; shadeLast?: number; title?: string }) {
+export function trendChart(opts: { periods: string[]; input: Num[]; trend: Num[]; unit?: string; shadeLast?: number; title?: string; extra?: NamedValues[]; extension?: ExtensionMark }) {
   return {
     ...baseOption(),
     xAxis: xAxis(opts.periods),
@@ -61,8 +88,9 @@ export function trendChart(opts: { periods: string[]; input: Num[]; trend: Num[]
         showSymbol: false,
         lineStyle: { width: 2, color: COLORS.trend },
         itemStyle: { color: COLORS.trend },
-        markArea: opts.shadeLast ? endOfSampleArea(opts.periods, opts.trend, opts.shadeLast) : undefined,
+        markArea: markAreas(opts.periods, opts.trend, opts.shadeLast, opts.extension),
       },
+      ...extraLines(opts.extra),
     ],
   };
 }
@@ -72,7 +100,7 @@ export interface TurningPointMark {
   type: 'peak' | 'trough';
 }
 
-export function cycleChart(opts: { periods: string[]; cycle: Num[]; unit?: string; turningPoints?: TurningPointMark[]; shadeLast?: number }) {
+export function cycleChart(opts: { periods: string[]; cycle: Num[]; unit?: string; turningPoints?: TurningPointMark[]; shadeLast?: number; extra?: NamedValues[]; extension?: ExtensionMark }) {
   const data = opts.cycle.map((v) => (v === null ? null : { value: v, itemStyle: { color: v >= 0 ? COLORS.above : COLORS.below } }));
   const marks = (opts.turningPoints ?? []).map((tp) => ({
     name: tp.type,
@@ -98,8 +126,9 @@ export function cycleChart(opts: { periods: string[]; cycle: Num[]; unit?: strin
         barCategoryGap: '10%',
         markLine: { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1, type: 'solid' }, label: { show: false }, data: [{ yAxis: 0 }] },
         markPoint: marks.length ? { data: marks } : undefined,
-        markArea: opts.shadeLast ? endOfSampleArea(opts.periods, opts.cycle, opts.shadeLast) : undefined,
+        markArea: markAreas(opts.periods, opts.cycle, opts.shadeLast, opts.extension),
       },
+      ...extraLines(opts.extra),
     ],
   };
 }

@@ -1,7 +1,7 @@
 import type { ColumnDef } from '@tanstack/react-table';
 import { useMemo, useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
-import { FREQUENCY_LABELS } from '@analysis/frequency';
+import { FREQUENCY_LABELS } from '@schemas/frequency';
 import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { hasRole, useMe } from '@/features/auth/api';

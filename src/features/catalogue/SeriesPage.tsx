@@ -1,5 +1,5 @@
 import { Link, useParams, useSearchParams } from 'react-router-dom';
-import { FREQUENCY_LABELS } from '@analysis/frequency';
+import { FREQUENCY_LABELS } from '@schemas/frequency';
 import { SA_LABELS } from '@schemas/catalogue';
 import { Chart } from '@/components/charts/Chart';
 import { levelChart } from '@/components/charts/options';

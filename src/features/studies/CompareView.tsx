@@ -1,30 +1,32 @@
 import { useMemo, useState } from 'react';
-import { defaultParams, METHOD_NAMES, METHODS, type Method } from '@analysis/frequency';
+import type { Frequency } from '@schemas/frequency';
 import type { StudySpec } from '@schemas/studies';
 import { Chart } from '@/components/charts/Chart';
 import { compareChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
 import { ErrorNote, Spinner } from '@/components/ui';
 import { useSeriesList } from '@/features/catalogue/api';
-import { useCompare } from './api';
+import { useCompare, useMethods } from './api';
 
 /** Overlay the cycles of several methods on one series, or of one method across several series. */
-export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: 'A' | 'Q' | 'M' }) {
+export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: Frequency }) {
   const [mode, setMode] = useState<'methods' | 'series'>('methods');
-  const [methods, setMethods] = useState<Method[]>(['hp', 'hp-one-sided', 'hamilton', 'christiano-fitzgerald']);
+  const [methods, setMethods] = useState<string[]>(['hp', 'hp-one-sided', 'hamilton', 'christiano-fitzgerald']);
+  const catalogue = useMethods().data?.methods ?? [];
+  const described = (id: string) => catalogue.find((m) => m.id === id);
   const [others, setOthers] = useState<number[]>([]);
   const [reference, setReference] = useState(0);
   const list = useSeriesList();
   const items = useMemo(() => {
     if (mode === 'methods') {
-      return methods.map((m) => ({ seriesId: spec.seriesId, vintage: spec.vintage, transform: spec.transform, method: m, params: m === spec.method ? spec.params : m === 'l1-trend' ? { lambda: 10 } : {}, label: METHOD_NAMES[m] }));
+      return methods.map((m) => ({ seriesId: spec.seriesId, vintage: spec.vintage, transform: spec.transform, method: m, params: m === spec.method ? spec.params : { ...(described(m)?.initial[frequency] ?? {}) }, label: described(m)?.name ?? m }));
     }
     return [spec.seriesId, ...others].map((id) => {
       const s = list.data?.find((x) => x.id === id);
       const sameFreq = s?.frequency === frequency;
-      return { seriesId: id, vintage: id === spec.seriesId ? spec.vintage : ('latest' as const), transform: /percent|rate/i.test(s?.unit ?? '') ? ('none' as const) : spec.transform, method: spec.method, params: sameFreq ? spec.params : defaultParams(spec.method, s?.frequency ?? frequency), label: s?.code ?? String(id) };
+      return { seriesId: id, vintage: id === spec.seriesId ? spec.vintage : ('latest' as const), transform: /percent|rate/i.test(s?.unit ?? '') ? ('none' as const) : spec.transform, method: spec.method, params: sameFreq ? spec.params : { ...(described(spec.method)?.initial[s?.frequency ?? frequency] ?? {}) }, label: s?.code ?? String(id) };
     });
-  }, [mode, methods, others, spec, list.data, frequency]);
+  }, [mode, methods, others, spec, list.data, frequency, catalogue]);
   const body = items.length ? { items, reference: Math.min(reference, items.length - 1), maxLag: frequency === 'M' ? 12 : frequency === 'Q' ? 8 : 3 } : null;
   const cmp = useCompare(body);
   return (
@@ -39,10 +41,10 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: '
       </div>
       {mode === 'methods' ? (
         <div className="flex flex-wrap gap-2">
-          {METHODS.map((m) => (
-            <label key={m} className={`tag cursor-pointer gap-1 ${methods.includes(m) ? 'border-trend bg-trend-light text-ink' : ''}`}>
-              <input type="checkbox" className="sr-only" checked={methods.includes(m)} onChange={() => setMethods(methods.includes(m) ? methods.filter((x) => x !== m) : [...methods, m])} />
-              {METHOD_NAMES[m]}
+          {catalogue.map(({ id, name }) => (
+            <label key={id} className={`tag cursor-pointer gap-1 ${methods.includes(id) ? 'border-trend bg-trend-light text-ink' : ''}`}>
+              <input type="checkbox" className="sr-only" checked={methods.includes(id)} onChange={() => setMethods(methods.includes(id) ? methods.filter((x) => x !== id) : [...methods, id])} />
+              {name}
             </label>
           ))}
         </div>

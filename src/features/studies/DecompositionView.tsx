@@ -1,18 +1,17 @@
 import { useMemo } from 'react';
-import { PERIOD_WORD } from '@analysis/frequency';
+import { PERIOD_WORD } from '@schemas/frequency';
 import { Chart } from '@/components/charts/Chart';
 import { cycleChart, gainChart, trendChart, withExhibitFrame } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
 import { downloadChart } from '@/components/charts/render';
+import { CAUTION_LINE } from '@schemas/cautions';
 import type { StudyResult } from './api';
 
-export const CAUTION_TEXT =
-  'Caution: gap estimates near the end of a sample are unreliable and are revised as new data arrive; two-sided filters use future data; the Hodrick–Prescott filter can produce cycles that are not in the data. Estimates are inputs to judgement, not a basis for policy or investment decisions on their own.';
-
-export function CautionLine() {
+/** The cautions a result carries (server/schemas/cautions.ts), under every decomposition. */
+export function CautionLine({ cautions }: { cautions: string[] }) {
   return (
     <p className="border-t border-hairline pt-2 text-xs text-alert" data-testid="caution-line">
-      {CAUTION_TEXT}
+      Caution: {cautions.join(' ')}
     </p>
   );
 }
@@ -49,16 +48,30 @@ export function StatsTable({ stats, unit }: { stats: Record<string, number | nul
 
 export function DecompositionView({ result, updating, title }: { result: StudyResult; updating: boolean; title: string }) {
   const word = PERIOD_WORD[result.frequency][1];
+  // A method's further series: those named cycle… go on the cycle chart, the others on the trend chart.
+  const extra = Object.entries(result.extra ?? {}).map(([name, values]) => ({ name, values }));
   const trendOpt = useMemo(
-    () => trendChart({ periods: result.periods, input: result.input, trend: result.trend, unit: result.transform === 'none' ? result.series.unit : result.transform === 'log100' ? '100 × log' : 'log', shadeLast: result.endOfSamplePeriods }),
+    () =>
+      trendChart({
+        periods: result.periods,
+        input: result.input,
+        trend: result.trend,
+        unit: result.transform === 'none' ? result.series.unit : result.transform === 'log100' ? '100 × log' : 'log',
+        shadeLast: result.endOfSamplePeriods,
+        extra: extra.filter((e) => !e.name.startsWith('cycle')),
+        extension: result.extension,
+      }),
     [result],
   );
-  const cycleOpt = useMemo(() => cycleChart({ periods: result.periods, cycle: result.cycle, unit: result.unitOfCycle, turningPoints: result.turningPoints, shadeLast: result.endOfSamplePeriods }), [result]);
+  const cycleOpt = useMemo(
+    () => cycleChart({ periods: result.periods, cycle: result.cycle, unit: result.unitOfCycle, turningPoints: result.turningPoints, shadeLast: result.endOfSamplePeriods, extra: extra.filter((e) => e.name.startsWith('cycle')), extension: result.extension }),
+    [result],
+  );
   const gainOpt = useMemo(() => (result.gain.gain.length ? gainChart({ ...result.gain, word }) : null), [result, word]);
   const frame = (what: string) => ({
     title,
     subtitle: `${result.series.title}: ${what} (${what === 'cycle' ? result.unitOfCycle : result.series.unit})`,
-    lines: [`Source: ${result.series.source}`, `${result.vintageStamp} · ${result.methodLine}`, 'Caution: end-of-sample estimates are revised; two-sided filters use future data; filters can create cycles not in the data.'],
+    lines: [`Source: ${result.series.source}`, `${result.vintageStamp} · ${result.methodLine}`, CAUTION_LINE],
   });
   const fileBase = `${result.series.code}-${result.method}-v${result.vintage}`;
   return (
@@ -110,7 +123,7 @@ export function DecompositionView({ result, updating, title }: { result: StudyRe
           ))}
         </ul>
       )}
-      <CautionLine />
+      <CautionLine cautions={result.cautions} />
     </div>
   );
 }

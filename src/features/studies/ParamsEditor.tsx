@@ -1,11 +1,18 @@
-import { cutoffPeriod, defaultParams, lambdaPresets, PERIOD_WORD, PERIODS_PER_YEAR, type Frequency, type Method } from '@analysis/frequency';
+/**
+ * The parameters of a method, rendered from its description in the method catalogue (GET /methods,
+ * server/schemas/methods.ts): λ fields with the slider, presets and cut-off; numbers and whole
+ * numbers with their bounds; choices; check boxes. A new method needs no code here.
+ */
+import { PERIOD_WORD, PERIODS_PER_YEAR, type Frequency } from '@schemas/frequency';
+import { cutoffPeriod, lambdaPresets, type MethodDescription, type ParamDescription, type ParamValue } from '@schemas/methods';
 import { fmt } from '@/components/charts/echarts';
 
 type Params = Record<string, unknown>;
 
 interface Props {
-  method: Method;
+  method: MethodDescription;
   frequency: Frequency;
+  /** The parameters given so far; the method's starting values fill the rest. */
   params: Params;
   onChange: (params: Params) => void;
   errors?: string | null;
@@ -15,7 +22,7 @@ const LOG_MIN = -1;
 const LOG_MAX = 7;
 
 /** λ with a logarithmic slider, a number field, the presets and the equivalent cut-off period. */
-export function LambdaControl({ value, order = 2, frequency, onChange, required }: { value: number | undefined; order?: number; frequency: Frequency; onChange: (v: number | undefined) => void; required?: boolean }) {
+export function LambdaControl({ value, order = 2, frequency, onChange, required, hint }: { value: number | undefined; order?: number; frequency: Frequency; onChange: (v: number | undefined) => void; required?: boolean; hint?: string }) {
   const cutoff = value && value > 0 ? cutoffPeriod(value, order) : null;
   const words = PERIOD_WORD[frequency];
   const ppy = PERIODS_PER_YEAR[frequency];
@@ -63,17 +70,70 @@ export function LambdaControl({ value, order = 2, frequency, onChange, required 
           </button>
         ))}
       </div>
+      {hint && <span className="block text-xs text-ink-faint">{hint}</span>}
     </div>
   );
 }
 
-function NumberField({ label, value, onChange, step = 1, min, hint }: { label: string; value: unknown; onChange: (v: number | undefined) => void; step?: number | 'any'; min?: number; hint?: string }) {
+const NUMBER = '__number__';
+
+/** One parameter that is not a λ. */
+function ParamField({ spec, value, onChange, frequency }: { spec: ParamDescription; value: unknown; onChange: (v: ParamValue | undefined) => void; frequency: Frequency }) {
+  const hint = spec.hint?.replace('{periods}', PERIOD_WORD[frequency][1]);
+  if (spec.kind === 'boolean') {
+    return (
+      <label className="flex items-end gap-2 pb-2 text-sm">
+        <input type="checkbox" checked={Boolean(value)} onChange={(e) => onChange(e.target.checked)} /> {spec.label}
+      </label>
+    );
+  }
+  if (spec.kind === 'enum') {
+    return (
+      <label className="block">
+        <span className="label">{spec.label}</span>
+        <select className="field" value={String(value)} onChange={(e) => onChange(spec.options.find((o) => String(o.value) === e.target.value)?.value)}>
+          {spec.options.map((o) => (
+            <option key={String(o.value)} value={String(o.value)}>
+              {o.label}
+            </option>
+          ))}
+        </select>
+        {hint && <span className="mt-0.5 block text-xs text-ink-faint">{hint}</span>}
+      </label>
+    );
+  }
+  if (spec.kind === 'lambda') return null;
+  const choices = spec.choices ?? [];
+  const named = choices.find((c) => c.value === value);
   return (
-    <label className="block">
-      <span className="label">{label}</span>
-      <input type="number" className="field num" step={step} min={min} value={value === undefined || value === null ? '' : String(value)} onChange={(e) => onChange(e.target.value === '' ? undefined : Number(e.target.value))} aria-label={label} />
+    <div className="block">
+      <label className="block">
+        <span className="label">{spec.label}</span>
+        {choices.length > 0 && (
+          <select className="field mb-1" aria-label={`${spec.label}: kind`} value={named ? named.value : NUMBER} onChange={(e) => onChange(e.target.value === NUMBER ? undefined : e.target.value)}>
+            <option value={NUMBER}>a number</option>
+            {choices.map((c) => (
+              <option key={c.value} value={c.value}>
+                {c.label}
+              </option>
+            ))}
+          </select>
+        )}
+      </label>
+      {!named && (
+        <input
+          type="number"
+          className="field num"
+          aria-label={spec.label}
+          step={spec.kind === 'integer' ? 1 : 'any'}
+          min={spec.min}
+          max={spec.max}
+          value={value === undefined || value === null ? '' : String(value)}
+          onChange={(e) => onChange(e.target.value === '' ? undefined : Number(e.target.value))}
+        />
+      )}
       {hint && <span className="mt-0.5 block text-xs text-ink-faint">{hint}</span>}
-    </label>
+    </div>
   );
 }
 
@@ -84,52 +144,29 @@ export function ParamsEditor({ method, frequency, params, onChange, errors }: Pr
     else next[key] = v;
     onChange(next);
   };
-  const d = defaultParams(method, frequency);
-  const words = PERIOD_WORD[frequency][1];
+  const initial = method.initial[frequency];
+  // A required parameter shows only what is given: a value the request lacks is not shown as set.
+  const valueOf = (name: string) => params[name] ?? (method.params.find((p) => p.name === name)?.required ? undefined : initial[name]);
+  const lambdas = method.params.filter((p) => p.kind === 'lambda');
+  const others = method.params.filter((p) => p.kind !== 'lambda');
   return (
     <div className="space-y-3" data-testid="params-editor">
-      {(method === 'hp' || method === 'hp-one-sided' || method === 'whittaker' || method === 'boosted-hp' || method === 'l1-trend') && (
-        <LambdaControl value={params.lambda as number | undefined} order={method === 'whittaker' ? Number(params.order ?? 2) : 2} frequency={frequency} onChange={(v) => set('lambda', v)} required={method === 'l1-trend'} />
-      )}
-      {method === 'whittaker' && (
-        <label className="block">
-          <span className="label">Order of the difference penalty</span>
-          <select className="field" value={String(params.order ?? 2)} onChange={(e) => set('order', Number(e.target.value))} aria-label="Order">
-            <option value="1">1: first differences (level)</option>
-            <option value="2">2: second differences (Hodrick–Prescott)</option>
-            <option value="3">3: third differences</option>
-          </select>
-        </label>
-      )}
-      {method === 'boosted-hp' && (
-        <div className="grid grid-cols-2 gap-2">
-          <label className="block">
-            <span className="label">Stopping</span>
-            <select className="field" value={String(params.stopping ?? 'bic')} onChange={(e) => set('stopping', e.target.value)} aria-label="Stopping">
-              <option value="bic">BIC (Phillips–Shi)</option>
-              <option value="fixed">fixed number</option>
-            </select>
-          </label>
-          <NumberField label={params.stopping === 'fixed' ? 'Iterations' : 'At most, iterations'} value={params.iterations ?? d.iterations} min={1} onChange={(v) => set('iterations', v)} />
-        </div>
-      )}
-      {method === 'hamilton' && (
-        <div className="grid grid-cols-2 gap-2">
-          <NumberField label="h (horizon)" value={params.h ?? d.h} min={1} onChange={(v) => set('h', v)} hint={`${words} ahead`} />
-          <NumberField label="p (lags)" value={params.p ?? d.p} min={1} onChange={(v) => set('p', v)} />
-        </div>
-      )}
-      {(method === 'baxter-king' || method === 'christiano-fitzgerald') && (
-        <div className="grid grid-cols-3 gap-2">
-          <NumberField label="Shortest period" value={params.low ?? d.low} min={2} step="any" onChange={(v) => set('low', v)} hint={words} />
-          <NumberField label="Longest period" value={params.high ?? d.high} min={2} step="any" onChange={(v) => set('high', v)} hint={words} />
-          {method === 'baxter-king' ? (
-            <NumberField label="K (lags)" value={params.k ?? d.k} min={1} onChange={(v) => set('k', v)} />
-          ) : (
-            <label className="flex items-end gap-2 pb-2 text-sm">
-              <input type="checkbox" checked={params.drift === undefined ? true : Boolean(params.drift)} onChange={(e) => set('drift', e.target.checked)} /> remove drift
-            </label>
-          )}
+      {lambdas.map((p) => (
+        <LambdaControl
+          key={p.name}
+          value={valueOf(p.name) as number | undefined}
+          order={p.kind === 'lambda' && p.orderParam ? Number(valueOf(p.orderParam) ?? 2) : 2}
+          frequency={frequency}
+          onChange={(v) => set(p.name, v)}
+          required={p.required}
+          hint={p.hint}
+        />
+      ))}
+      {others.length > 0 && (
+        <div className={`grid gap-2 ${others.length >= 3 ? 'grid-cols-3' : others.length === 2 ? 'grid-cols-2' : ''}`}>
+          {others.map((p) => (
+            <ParamField key={p.name} spec={p} value={valueOf(p.name)} frequency={frequency} onChange={(v) => set(p.name, v)} />
+          ))}
         </div>
       )}
       {errors && (

@@ -1,10 +1,9 @@
 import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
-import { METHOD_NAMES, METHODS } from '@analysis/frequency';
 import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { hasRole, useMe } from '@/features/auth/api';
-import { useStudies } from './api';
+import { useMethods, useStudies } from './api';
 
 export function StudiesPage() {
   const me = useMe();
@@ -13,6 +12,8 @@ export function StudiesPage() {
   const [q, setQ] = useState('');
   const studies = useStudies({ mine, method: method || undefined, q: q || undefined });
   const navigate = useNavigate();
+  const methods = useMethods().data?.methods ?? [];
+  const nameOf = (id: string) => methods.find((m) => m.id === id)?.name ?? id;
   return (
     <>
       <PageHeader title="Studies" actions={hasRole(me.data, 'economist') && <Link to="/studies/new" className="btn">New study</Link>}>
@@ -22,9 +23,9 @@ export function StudiesPage() {
         <input className="field max-w-xs" placeholder="Search title or series" value={q} onChange={(e) => setQ(e.target.value)} aria-label="Search studies" />
         <select className="field max-w-[14rem]" value={method} onChange={(e) => setMethod(e.target.value)} aria-label="Filter by method">
           <option value="">All methods</option>
-          {METHODS.map((m) => (
-            <option key={m} value={m}>
-              {METHOD_NAMES[m]}
+          {methods.map((m) => (
+            <option key={m.id} value={m.id}>
+              {m.name}
             </option>
           ))}
         </select>
@@ -45,7 +46,7 @@ export function StudiesPage() {
           columns={[
             { accessorKey: 'title', header: 'Title', cell: (c) => <Link to={`/studies/${c.row.original.id}`} className="font-semibold text-trend hover:underline">{c.getValue()}</Link> },
             { id: 'series', header: 'Series', accessorFn: (s) => s.series.code },
-            { id: 'method', header: 'Method', accessorFn: (s) => METHOD_NAMES[s.method] },
+            { id: 'method', header: 'Method', accessorFn: (s) => nameOf(s.method) },
             { id: 'vintage', header: 'Vintage', accessorFn: (s) => (s.vintage === 'latest' ? 'latest' : `pinned: ${s.vintage}`) },
             { id: 'owner', header: 'Owner', accessorFn: (s) => s.owner.name },
             { accessorKey: 'updatedAt', header: 'Changed', cell: (c) => formatDate(c.getValue(), true) },

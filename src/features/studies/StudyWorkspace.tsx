@@ -2,14 +2,14 @@ import { zodResolver } from '@hookform/resolvers/zod';
 import { useEffect, useState } from 'react';
 import { Controller, useForm, useWatch } from 'react-hook-form';
 import { Link, useNavigate, useParams, useSearchParams } from 'react-router-dom';
-import { defaultParams, METHOD_NAMES, METHODS, type Method } from '@analysis/frequency';
-import { TRANSFORM_LABELS } from '@analysis/transform';
+import { TRANSFORM_LABELS, TRANSFORMS } from '@schemas/decompose';
 import { createStudySchema, type CreateStudyBody, type StudySpec } from '@schemas/studies';
 import { EmptyState, ErrorNote, Field, PageHeader, Spinner } from '@/components/ui';
 import { hasRole, useMe } from '@/features/auth/api';
 import { useSeriesList, useVintages } from '@/features/catalogue/api';
 import { API } from '@/lib/api';
-import { useDebounced, usePreview, useSaveStudy, useStudy, useStudyAction, type Study } from './api';
+import { useDebounced } from '@/lib/useDebounced';
+import { useMethods, usePreview, useSaveStudy, useStudy, useStudyAction, type Study } from './api';
 import { CompareView } from './CompareView';
 import { DecompositionView } from './DecompositionView';
 import { ParamsEditor } from './ParamsEditor';
@@ -43,12 +43,14 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
   const series = list.data?.find((s) => s.id === values.seriesId);
   const frequency = series?.frequency ?? study?.series.frequency ?? 'Q';
   const vintages = useVintages(values.seriesId ?? 0);
+  const methods = useMethods();
+  const method = methods.data?.methods.find((m) => m.id === (values.method ?? 'hp'));
 
   // New studies start from the conventional parameters of the series' frequency; levels in
   // percent (rates, ratios) are decomposed without a log.
   useEffect(() => {
     if (!study && series && !form.getValues('title')) {
-      form.setValue('title', `${series.code}: ${METHOD_NAMES[form.getValues('method')]}`);
+      form.setValue('title', `${series.code}: ${methods.data?.methods.find((m) => m.id === form.getValues('method'))?.name ?? form.getValues('method')}`);
       if (/percent|rate/i.test(series.unit)) form.setValue('transform', 'none');
     }
   }, [series?.id]);
@@ -150,7 +152,7 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
             </Field>
             <Field label="Transform" htmlFor="transform">
               <select id="transform" className="field" disabled={!canEdit} {...form.register('transform')}>
-                {(['none', 'log', 'log100'] as const).map((t) => (
+                {TRANSFORMS.map((t) => (
                   <option key={t} value={t}>
                     {TRANSFORM_LABELS[t]}
                   </option>
@@ -169,14 +171,14 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
                   disabled={!canEdit}
                   value={field.value}
                   onChange={(e) => {
-                    const m = e.target.value as Method;
-                    field.onChange(m);
-                    form.setValue('params', m === 'l1-trend' ? { lambda: 10 } : { ...defaultParams(m, frequency) });
+                    const m = methods.data?.methods.find((x) => x.id === e.target.value);
+                    field.onChange(e.target.value);
+                    form.setValue('params', { ...(m?.initial[frequency] ?? {}) });
                   }}
                 >
-                  {METHODS.map((m) => (
-                    <option key={m} value={m}>
-                      {METHOD_NAMES[m]}
+                  {(methods.data?.methods ?? []).map((m) => (
+                    <option key={m.id} value={m.id}>
+                      {m.name}
                     </option>
                   ))}
                 </select>
@@ -187,9 +189,7 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
             <Controller
               control={form.control}
               name="params"
-              render={({ field }) => (
-                <ParamsEditor method={values.method ?? 'hp'} frequency={frequency} params={{ ...defaultParams(values.method ?? 'hp', frequency), ...(field.value ?? {}) }} onChange={field.onChange} errors={paramError} />
-              )}
+              render={({ field }) => (method ? <ParamsEditor method={method} frequency={frequency} params={field.value ?? {}} onChange={field.onChange} errors={paramError} /> : <Spinner />)}
             />
           </fieldset>
           <Field label="Title" htmlFor="title" error={form.formState.errors.title?.message}>

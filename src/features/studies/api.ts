@@ -1,17 +1,16 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useEffect, useState } from 'react';
 import { api } from '@/lib/api';
+import type { MethodDescription, MethodsAnswer } from '@schemas/methods';
 import type { CompareBody, CompareResult, CreateStudyBody, RealtimeResult, Study, StudyResult, StudySpec } from '@schemas/studies';
 
-export type { CompareResult, RealtimeResult, Study, StudyResult };
+export type { CompareResult, MethodDescription, RealtimeResult, Study, StudyResult };
 
-export function useDebounced<T>(value: T, ms: number): T {
-  const [v, setV] = useState(value);
-  useEffect(() => {
-    const t = setTimeout(() => setV(value), ms);
-    return () => clearTimeout(t);
-  }, [JSON.stringify(value), ms]);
-  return v;
+/** The method catalogue (GET /methods): names, parameters and their defaults, read once. */
+export const useMethods = () => useQuery({ queryKey: ['methods'], queryFn: () => api<MethodsAnswer>('/methods'), staleTime: Infinity });
+
+/** One method's description, when the catalogue has loaded. */
+export function useMethod(id: string | undefined): MethodDescription | undefined {
+  return useMethods().data?.methods.find((m) => m.id === id);
 }
 
 export const useStudies = (filter: { mine?: boolean; method?: string; q?: string; seriesId?: number }) =>

@@ -1,0 +1,11 @@
+import { useEffect, useState } from 'react';
+
+/** The value, once it has stayed the same for `ms` milliseconds (compared by its JSON). */
+export function useDebounced<T>(value: T, ms: number): T {
+  const [v, setV] = useState(value);
+  useEffect(() => {
+    const t = setTimeout(() => setV(value), ms);
+    return () => clearTimeout(t);
+  }, [JSON.stringify(value), ms]);
+  return v;
+}
