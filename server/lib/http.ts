@@ -6,10 +6,10 @@
 import express, { type NextFunction, type Request, type RequestHandler, type Response, type Router } from 'express';
 import { z } from 'zod';
 import { HttpError, forbidden, unauthorized } from './errors.js';
+import { allows, type Access } from '../schemas/access.js';
 import type { AuthContext } from '../schemas/auth.js';
-import type { Role } from '../schemas/people.js';
 
-export type Access = 'public' | 'signedIn' | readonly Role[];
+export type { Access };
 
 export interface RouteContext<B = unknown, Q = unknown> {
   body: B;
@@ -51,12 +51,9 @@ export function guard(access: Access): RequestHandler {
     if (req.authError) return next(req.authError);
     const auth = req.auth;
     if (!auth) return next(unauthorized());
-    if (access === 'signedIn') return next();
-    if (!access.some((role) => auth.user.roles.includes(role))) {
-      const names = access.join(' or ');
-      return next(forbidden('role_required', `This needs the ${names} role.`, { roles: access }));
-    }
-    next();
+    if (allows(access, auth.user.roles)) return next();
+    const roles = access as readonly string[];
+    next(forbidden('role_required', `This needs the ${roles.join(' or ')} role.`, { roles }));
   };
 }
 

@@ -2,6 +2,7 @@ import multer from 'multer';
 import type { Request, RequestHandler } from 'express';
 import { z } from 'zod';
 import type { AppDeps } from '../deps.js';
+import { ACCESS } from '../schemas/access.js';
 import { badRequest, conflict } from '../lib/errors.js';
 import { idParam, parseOr400, sendFile, type RouteSpec } from '../lib/http.js';
 import { answerWithProgress } from '../lib/stream.js';
@@ -11,8 +12,6 @@ import { revisionTriangle, revisions } from '../services/catalogue/revisions.js'
 import { createSeries, deleteSeries, getSeries, listSeries, updateSeries } from '../services/catalogue/series.js';
 import { listVintages, observationsOf, resolveVintage } from '../services/catalogue/vintages.js';
 import { vintageExport } from '../services/exports.js';
-
-const STEWARD = ['steward', 'admin'] as const;
 
 const vintageRef = (v: string | undefined) => (v === 'latest' ? 'latest' : Number(v));
 
@@ -50,7 +49,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/series',
-      access: STEWARD,
+      access: ACCESS.catalogueWrite,
       summary: 'Define a series',
       tags: ['catalogue'],
       body: createSeriesSchema,
@@ -73,7 +72,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'patch',
       path: '/series/:id',
-      access: STEWARD,
+      access: ACCESS.catalogueWrite,
       summary: 'Correct a series’ metadata',
       tags: ['catalogue'],
       body: updateSeriesSchema,
@@ -82,7 +81,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'delete',
       path: '/series/:id',
-      access: STEWARD,
+      access: ACCESS.catalogueWrite,
       summary: 'Delete a series that has no vintage yet',
       tags: ['catalogue'],
       handler: ({ params, auth, req }) => deleteSeries(db, auth!.user.id, idParam(params.id, 'The series'), req.ip),
@@ -90,7 +89,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/series/:id/vintages',
-      access: STEWARD,
+      access: ACCESS.catalogueWrite,
       summary: 'Load a release of a series as a new vintage (?dryRun=1 previews and stores nothing)',
       tags: ['catalogue'],
       before: [upload(config.maxUploadBytes)],
@@ -175,7 +174,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/loads',
-      access: STEWARD,
+      access: ACCESS.catalogueWrite,
       summary: 'Load an SDMX-CSV (or CSV) file carrying many series; every changed series gets a vintage in one transaction',
       tags: ['catalogue'],
       before: [upload(config.maxUploadBytes)],

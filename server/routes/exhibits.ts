@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import type { AppDeps } from '../deps.js';
+import { ACCESS } from '../schemas/access.js';
 import { idParam, sendFile, type RouteSpec } from '../lib/http.js';
 import { createExhibitSchema, transitionSchema, updateExhibitSchema } from '../schemas/exhibits.js';
 import { exhibitDiff } from '../services/exhibits/diff.js';
@@ -36,7 +37,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/exhibits',
-      access: ['economist'],
+      access: ACCESS.exhibitsDraft,
       summary: 'Draft an exhibit from a study or a board panel',
       tags: ['exhibits'],
       body: createExhibitSchema,
@@ -54,7 +55,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'patch',
       path: '/exhibits/:id',
-      access: ['economist'],
+      access: ACCESS.exhibitsDraft,
       summary: 'Edit one’s own draft or returned exhibit (409 once approved or published)',
       tags: ['exhibits'],
       body: updateExhibitSchema,
@@ -63,7 +64,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'delete',
       path: '/exhibits/:id',
-      access: ['economist'],
+      access: ACCESS.exhibitsDraft,
       summary: 'Delete one’s own draft',
       tags: ['exhibits'],
       handler: ({ params, auth }) => deleteExhibit(deps, auth!.user, idParam(params.id, 'The exhibit')),
@@ -89,7 +90,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/review',
-      access: ['editor'],
+      access: ACCESS.review,
       summary: 'The Review desk: exhibits in review, oldest first',
       tags: ['exhibits'],
       handler: async ({ auth }) => ({ items: await reviewQueue(deps, auth!.user) }),

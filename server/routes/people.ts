@@ -1,4 +1,5 @@
 import type { AppDeps } from '../deps.js';
+import { ACCESS } from '../schemas/access.js';
 import { idParam, type RouteSpec } from '../lib/http.js';
 import { createTokenSchema, inviteSchema, updateSettingsSchema, updateUserSchema } from '../schemas/people.js';
 import { createToken, listTokens, revokeToken } from '../services/people/tokens.js';
@@ -9,16 +10,14 @@ import { getSettings, updateSettings } from '../services/settings.js';
 import { z } from 'zod';
 import { HttpError } from '../lib/errors.js';
 
-const ADMIN = ['admin'] as const;
-
 export function peopleRoutes(deps: AppDeps): RouteSpec[] {
   const { db } = deps;
   return [
-    { method: 'get', path: '/users', access: ADMIN, summary: 'Everyone in the workspace', tags: ['people'], handler: async () => ({ items: await listUsers(db) }) },
+    { method: 'get', path: '/users', access: ACCESS.people, summary: 'Everyone in the workspace', tags: ['people'], handler: async () => ({ items: await listUsers(db) }) },
     {
       method: 'patch',
       path: '/users/:id',
-      access: ADMIN,
+      access: ACCESS.people,
       summary: 'Change a person’s roles, name or status (deactivation ends their sessions and tokens)',
       tags: ['people'],
       body: updateUserSchema,
@@ -28,11 +27,11 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
         return { user: await updateUser(deps, auth!.user, id, body, req.ip) };
       },
     },
-    { method: 'get', path: '/invitations', access: ADMIN, summary: 'Pending invitations', tags: ['people'], handler: async () => ({ items: await listInvitations(db) }) },
+    { method: 'get', path: '/invitations', access: ACCESS.people, summary: 'Pending invitations', tags: ['people'], handler: async () => ({ items: await listInvitations(db) }) },
     {
       method: 'post',
       path: '/invitations',
-      access: ADMIN,
+      access: ACCESS.people,
       summary: 'Invite someone by e-mail with roles',
       tags: ['people'],
       body: inviteSchema,
@@ -42,7 +41,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/invitations/:id/resend',
-      access: ADMIN,
+      access: ACCESS.people,
       summary: 'Send an invitation again with a fresh link',
       tags: ['people'],
       handler: ({ params, auth, req }) => resendInvitation(deps, auth!.user, idParam(params.id, 'The invitation'), req.ip),
@@ -50,7 +49,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'delete',
       path: '/invitations/:id',
-      access: ADMIN,
+      access: ACCESS.people,
       summary: 'Withdraw a pending invitation',
       tags: ['people'],
       handler: ({ params, auth, req }) => revokeInvitation(db, auth!.user, idParam(params.id, 'The invitation'), req.ip),
@@ -58,7 +57,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/users/:id/tokens',
-      access: ADMIN,
+      access: ACCESS.people,
       summary: 'A person’s API tokens (to revoke them)',
       tags: ['people'],
       handler: async ({ params }) => ({ items: await listTokens(db, idParam(params.id, 'The person')) }),
@@ -66,7 +65,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/audit',
-      access: ADMIN,
+      access: ACCESS.people,
       summary: 'The audit log, newest first',
       tags: ['people'],
       query: z.object({ action: z.string().max(64).optional(), limit: z.coerce.number().int().min(1).max(1000).optional() }),
@@ -76,7 +75,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'put',
       path: '/settings',
-      access: ADMIN,
+      access: ACCESS.people,
       summary: 'Change workspace settings',
       tags: ['people'],
       body: updateSettingsSchema,
@@ -108,7 +107,7 @@ export function peopleRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/dev/mailbox',
-      access: ADMIN,
+      access: ACCESS.people,
       summary: 'Messages caught by the local fake mail server (development and tests only)',
       tags: ['people'],
       handler: () => {

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { methodIdEnum } from '../analysis/methods/index.js';
 import type { AppDeps } from '../deps.js';
+import { ACCESS } from '../schemas/access.js';
 import { idParam, sendFile, type RouteSpec } from '../lib/http.js';
 import { answerWithProgress } from '../lib/stream.js';
 import { studySchemas } from '../schemas/studies.js';
@@ -9,8 +10,6 @@ import { realtimeAnalysis } from '../services/studies/realtime.js';
 import { compare, computeSpec, studyResult } from '../services/studies/results.js';
 import { createStudy, deleteStudy, duplicateStudy, getStudy, listStudies, updateStudy } from '../services/studies/studies.js';
 
-const ECONOMIST = ['economist'] as const;
-
 export function studyRoutes(deps: AppDeps): RouteSpec[] {
   const { db } = deps;
   const { compareSchema, createStudySchema, studySpecSchema, updateStudySchema } = studySchemas(methodIdEnum());
@@ -18,7 +17,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/studies',
-      access: 'signedIn',
+      access: ACCESS.studiesRead,
       summary: 'Saved studies, newest first (?mine=1, ?seriesId=, ?method=, ?q=)',
       tags: ['studies'],
       query: z.object({ mine: z.string().optional(), seriesId: z.coerce.number().int().positive().optional(), method: z.string().max(32).optional(), q: z.string().max(100).optional() }),
@@ -29,7 +28,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/studies',
-      access: ECONOMIST,
+      access: ACCESS.studiesWrite,
       summary: 'Save a study: a series, a vintage pin (a number or "latest"), a transform, a method and its parameters',
       tags: ['studies'],
       body: createStudySchema,
@@ -39,7 +38,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/studies/preview',
-      access: 'signedIn',
+      access: ACCESS.studiesRead,
       summary: 'The result a study would give, without saving it (the study page recomputes with this)',
       tags: ['studies'],
       body: studySpecSchema,
@@ -48,7 +47,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/studies/compare',
-      access: 'signedIn',
+      access: ACCESS.studiesRead,
       summary: 'Cycles of several methods or series on aligned periods, with cross-correlations against a reference',
       tags: ['studies'],
       body: compareSchema,
@@ -57,7 +56,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/studies/:id',
-      access: 'signedIn',
+      access: ACCESS.studiesRead,
       summary: 'A study',
       tags: ['studies'],
       handler: ({ params }) => getStudy(db, idParam(params.id, 'The study')),
@@ -65,7 +64,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'patch',
       path: '/studies/:id',
-      access: ECONOMIST,
+      access: ACCESS.studiesWrite,
       summary: 'Change one’s own study',
       tags: ['studies'],
       body: updateStudySchema,
@@ -74,7 +73,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'delete',
       path: '/studies/:id',
-      access: ECONOMIST,
+      access: ACCESS.studiesWrite,
       summary: 'Delete one’s own study',
       tags: ['studies'],
       handler: ({ params, auth, req }) => deleteStudy(db, auth!.user, idParam(params.id, 'The study'), req.ip),
@@ -82,7 +81,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/studies/:id/duplicate',
-      access: ECONOMIST,
+      access: ACCESS.studiesWrite,
       summary: 'Copy a study into one’s own',
       tags: ['studies'],
       status: 201,
@@ -91,7 +90,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/studies/:id/result',
-      access: 'signedIn',
+      access: ACCESS.studiesRead,
       summary: 'The decomposition of the study’s data, with the vintage used, statistics, turning points and gain',
       tags: ['studies'],
       handler: ({ params }) => studyResult(db, idParam(params.id, 'The study')),
@@ -99,7 +98,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'post',
       path: '/studies/:id/realtime',
-      access: 'signedIn',
+      access: ACCESS.studiesRead,
       summary: 'Real-time revision analysis: the method on every vintage, real-time against final, and the quasi-real-time variant',
       tags: ['studies'],
       raw: true,
@@ -111,7 +110,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/studies/:id/export',
-      access: 'signedIn',
+      access: ACCESS.studiesRead,
       summary: 'The study’s numbers as CSV or XLSX, with the method line and the vintage stamp',
       tags: ['studies'],
       query: z.object({ format: z.enum(['csv', 'xlsx']).default('csv') }),

@@ -7,6 +7,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { signedIn } from '../helpers/session.js';
+import { allows, PAGES, type Access } from '../../server/schemas/access.js';
 import { ROLES, type Role } from '../../server/schemas/people.js';
 
 type Who = Role | 'anon' | 'revoked';
@@ -14,6 +15,8 @@ const ALL: Role[] = [...ROLES];
 const SIGNED_IN = ALL;
 const PUBLIC = 'public' as const;
 const STEWARDS: Role[] = ['steward', 'admin'];
+// Economists, editors and administrators read studies; stewards and readers do not.
+const STUDY_READERS: Role[] = ['economist', 'editor', 'admin'];
 
 interface Row {
   route: string; // "METHOD /api/v1/path" exactly as registered
@@ -71,18 +74,18 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/methods', allow: SIGNED_IN },
   { route: 'GET /api/v1/gain', path: '/api/v1/gain?method=hp', allow: SIGNED_IN },
   { route: 'GET /api/v1/lambda', path: '/api/v1/lambda?lambda=1600', allow: SIGNED_IN },
-  // Studies: economists make and change their own; everyone signed in reads and computes.
-  { route: 'GET /api/v1/studies', allow: SIGNED_IN },
+  // Studies: economists make and change their own; economists, editors and administrators read them.
+  { route: 'GET /api/v1/studies', allow: STUDY_READERS },
   { route: 'POST /api/v1/studies', body: {}, allow: ['economist'] },
-  { route: 'POST /api/v1/studies/preview', body: {}, allow: SIGNED_IN },
-  { route: 'POST /api/v1/studies/compare', body: {}, allow: SIGNED_IN },
-  { route: 'GET /api/v1/studies/:id', path: '/api/v1/studies/999999', allow: SIGNED_IN },
+  { route: 'POST /api/v1/studies/preview', body: {}, allow: STUDY_READERS },
+  { route: 'POST /api/v1/studies/compare', body: {}, allow: STUDY_READERS },
+  { route: 'GET /api/v1/studies/:id', path: '/api/v1/studies/999999', allow: STUDY_READERS },
   { route: 'PATCH /api/v1/studies/:id', path: '/api/v1/studies/999999', body: { title: 'x' }, allow: ['economist'] },
   { route: 'DELETE /api/v1/studies/:id', path: '/api/v1/studies/999999', allow: ['economist'] },
   { route: 'POST /api/v1/studies/:id/duplicate', path: '/api/v1/studies/999999/duplicate', allow: ['economist'] },
-  { route: 'GET /api/v1/studies/:id/result', path: '/api/v1/studies/999999/result', allow: SIGNED_IN },
-  { route: 'POST /api/v1/studies/:id/realtime', path: '/api/v1/studies/999999/realtime', allow: SIGNED_IN },
-  { route: 'GET /api/v1/studies/:id/export', path: '/api/v1/studies/999999/export', allow: SIGNED_IN },
+  { route: 'GET /api/v1/studies/:id/result', path: '/api/v1/studies/999999/result', allow: STUDY_READERS },
+  { route: 'POST /api/v1/studies/:id/realtime', path: '/api/v1/studies/999999/realtime', allow: STUDY_READERS },
+  { route: 'GET /api/v1/studies/:id/export', path: '/api/v1/studies/999999/export', allow: STUDY_READERS },
   // Boards: economists compose; everyone signed in reads shared boards.
   { route: 'GET /api/v1/boards', allow: SIGNED_IN },
   { route: 'POST /api/v1/boards', body: {}, allow: ['economist'] },
@@ -124,6 +127,23 @@ beforeAll(async () => {
 }, 120_000);
 afterAll(async () => {
   await t.close();
+});
+
+const rolesOf = (access: Access): Role[] => ALL.filter((r) => allows(access, [r]));
+
+describe('the client’s pages and the server agree (server/schemas/access.ts)', () => {
+  it('every page’s API routes exist and let in everyone who may open the page; its main route lets in exactly them', () => {
+    const access = new Map(t.app.locals.routes.map((r) => [`${r.method.toUpperCase()} ${r.fullPath}`, r.access]));
+    for (const page of PAGES) {
+      const pageRoles = rolesOf(page.access);
+      page.api.forEach((route, k) => {
+        expect(access.has(route), `${page.path}: ${route} is not a route`).toBe(true);
+        const routeRoles = rolesOf(access.get(route)!);
+        expect(pageRoles.filter((r) => !routeRoles.includes(r)), `${page.path} is open to roles that ${route} refuses`).toEqual([]);
+        if (k === 0) expect(routeRoles, `${page.path} and its main route ${route}`).toEqual(pageRoles);
+      });
+    }
+  });
 });
 
 describe('role matrix', () => {

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { TestServer } from '../helpers/app.js';
-import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { openSuite, signInAs, signOut, type BrowserSession, type Suite } from '../helpers/browser.js';
 import { signedIn } from '../helpers/session.js';
 
 let t: TestServer;
@@ -23,6 +23,23 @@ describe('the application shell in Chromium', () => {
     expect(await page.getByTestId('health-status').innerText()).toMatch(/database online/i);
     const nav = await page.getByRole('navigation', { name: 'Main' }).innerText();
     for (const item of ['Catalogue', 'Studies', 'Boards', 'People']) expect(nav).toContain(item);
+  });
+
+  it('opens pages by the role map the server checks: studies for editors, not for stewards', async () => {
+    const { page } = browser;
+    await signOut(page);
+    await signInAs(page, t.url, 'steward@demo.test');
+    expect(await page.getByRole('navigation', { name: 'Main' }).innerText()).not.toContain('Studies');
+    await page.goto(`${t.url}/studies`);
+    await page.getByTestId('role-needed').waitFor();
+    expect(await page.locator('h1').innerText()).toBe('You need the economist, editor or administrator role');
+    await signOut(page);
+    await signInAs(page, t.url, 'editor@demo.test');
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Studies' }).click();
+    // The demo workspace's studies, listed by the API the editor may now read.
+    await page.getByRole('link', { name: 'Estuary output gap, Hodrick–Prescott' }).click();
+    await expect.poll(() => page.getByTestId('method-line').innerText(), { timeout: 15_000 }).toMatch(/Hodrick–Prescott, λ = 1 600/);
+    expect(await page.getByTestId('role-needed').count()).toBe(0);
   });
 
   it('shows the not-found page for an unknown address', async () => {

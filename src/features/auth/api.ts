@@ -21,10 +21,6 @@ export function useMe() {
   });
 }
 
-export function hasRole(user: PublicUser | null | undefined, ...roles: Role[]) {
-  return !!user && roles.some((r) => user.roles.includes(r));
-}
-
 export function useSignIn() {
   const qc = useQueryClient();
   return useMutation({

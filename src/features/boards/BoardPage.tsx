@@ -3,10 +3,11 @@ import { Link, useParams } from 'react-router-dom';
 import { Chart } from '@/components/charts/Chart';
 import { compareChart, cycleChart, vintagesChart } from '@/components/charts/options';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
-import { hasRole, useMe } from '@/features/auth/api';
+import { useMe } from '@/features/auth/api';
 import { useVintages } from '@/features/catalogue/api';
 import { useStudies } from '@/features/studies/api';
 import { useBoard, useBoardMutations, usePanelData, type Panel } from './api';
+import { ACCESS, allows } from '@schemas/access';
 
 const HEIGHTS = { s: 200, m: 290, l: 420 } as const;
 
@@ -19,7 +20,7 @@ export function BoardPage() {
   if (board.isPending) return <Spinner />;
   if (board.error) return <ErrorNote error={board.error} />;
   const b = board.data;
-  const owner = b.owner.id === me.data?.id && hasRole(me.data, 'economist');
+  const owner = b.owner.id === me.data?.id && allows(ACCESS.boardsWrite, me.data?.roles);
   const move = (panelId: number, delta: number) => {
     const ids = b.panels.map((p) => p.id);
     const i = ids.indexOf(panelId);
@@ -54,7 +55,7 @@ export function BoardPage() {
             boardId={id}
             panel={p}
             owner={owner}
-            canDraft={hasRole(me.data, 'economist')}
+            canDraft={allows(ACCESS.exhibitsDraft, me.data?.roles)}
             first={i === 0}
             last={i === b.panels.length - 1}
             onMove={(d) => move(p.id, d)}

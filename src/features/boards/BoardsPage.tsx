@@ -4,8 +4,9 @@ import { Link, useNavigate } from 'react-router-dom';
 import { createBoardSchema } from '@schemas/boards';
 import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
-import { hasRole, useMe } from '@/features/auth/api';
+import { useMe } from '@/features/auth/api';
 import { useBoardMutations, useBoards } from './api';
+import { ACCESS, allows } from '@schemas/access';
 
 export function BoardsPage() {
   const me = useMe();
@@ -13,7 +14,7 @@ export function BoardsPage() {
   const { create } = useBoardMutations();
   const navigate = useNavigate();
   const form = useForm<{ title: string; description?: string; visibility: 'private' | 'team' }>({ resolver: zodResolver(createBoardSchema) as never, defaultValues: { title: '', description: '', visibility: 'team' } });
-  const canCompose = hasRole(me.data, 'economist');
+  const canCompose = allows(ACCESS.boardsWrite, me.data?.roles);
   return (
     <>
       <PageHeader title="Boards">Pages of panels shared with the team: a study, or a comparison across methods, series or vintages.</PageHeader>

@@ -4,8 +4,9 @@ import { Link, useNavigate } from 'react-router-dom';
 import { FREQUENCY_LABELS } from '@schemas/frequency';
 import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
-import { hasRole, useMe } from '@/features/auth/api';
+import { useMe } from '@/features/auth/api';
 import { useSeriesList, type SeriesListItem } from './api';
+import { ACCESS, allows } from '@schemas/access';
 
 export function InventedBadge({ source }: { source: string }) {
   if (!/invented/i.test(source)) return null;
@@ -23,7 +24,7 @@ export function CataloguePage() {
   const [q, setQ] = useState('');
   const [frequency, setFrequency] = useState('');
   const [unit, setUnit] = useState('');
-  const canEdit = hasRole(me.data, 'steward', 'admin');
+  const canEdit = allows(ACCESS.catalogueWrite, me.data?.roles);
   const columns = useMemo<ColumnDef<SeriesListItem, any>[]>(
     () => [
       { accessorKey: 'code', header: 'Code', cell: (c) => <Link to={`/catalogue/${c.row.original.id}`} className="font-semibold text-trend hover:underline">{c.getValue()}</Link> },

@@ -1,12 +1,11 @@
-import { useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Chart } from '@/components/charts/Chart';
 import { vintagesChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
 import { DataTable } from '@/components/DataTable';
 import { ErrorNote, Field, Progress } from '@/components/ui';
-import { upload, type UploadProgress } from '@/lib/upload';
-import { useObservations, type LoadPreview, type Problem, type Series } from './api';
+import type { UploadProgress } from '@/lib/upload';
+import { useLoad, useObservations, type LoadPreview, type Problem, type Series } from './api';
 
 const PHASES: Record<UploadProgress['phase'], string> = {
   uploading: 'Sending the file',
@@ -34,14 +33,14 @@ export function ProblemsTable({ problems }: { problems: Problem[] }) {
 }
 
 export function LoadPanel({ series, onStored }: { series: Series & { vintageCount: number }; onStored: () => void }) {
-  const qc = useQueryClient();
+  const load = useLoad();
   const [file, setFile] = useState<File | null>(null);
   const [note, setNote] = useState('');
   const [asOf, setAsOf] = useState(new Date().toISOString().slice(0, 10));
-  const [progress, setProgress] = useState<UploadProgress | null>(null);
   const [preview, setPreview] = useState<LoadPreview | null>(null);
-  const [error, setError] = useState<unknown>(null);
   const [stored, setStored] = useState<{ number: number; asOf: string; rowCount: number } | null>(null);
+  const progress = load.progress;
+  const error = load.error;
   const latest = useObservations(series.id, 'latest', series.vintageCount > 0);
 
   const form = (withFields: boolean) => {
@@ -54,34 +53,23 @@ export function LoadPanel({ series, onStored }: { series: Series & { vintageCoun
     }
     return f;
   };
-  const check = async () => {
-    setError(null);
+  const check = () => {
     setPreview(null);
     setStored(null);
-    try {
-      const res = await upload<{ preview: LoadPreview }>(`/series/${series.id}/vintages?dryRun=1`, form(false), setProgress);
-      setPreview(res.preview);
-    } catch (e) {
-      setError(e);
-    } finally {
-      setProgress(null);
-    }
+    load.mutate({ path: `/series/${series.id}/vintages?dryRun=1`, form: form(false) }, { onSuccess: (res) => setPreview(res.preview) });
   };
-  const store = async () => {
-    setError(null);
-    try {
-      const res = await upload<{ vintage: { number: number; asOf: string; rowCount: number } }>(`/series/${series.id}/vintages`, form(true), setProgress);
-      setStored(res.vintage);
-      setPreview(null);
-      setFile(null);
-      await qc.invalidateQueries({ queryKey: ['series'] });
-      onStored();
-    } catch (e) {
-      setError(e);
-    } finally {
-      setProgress(null);
-    }
-  };
+  const store = () =>
+    load.mutate(
+      { path: `/series/${series.id}/vintages`, form: form(true) },
+      {
+        onSuccess: (res) => {
+          setStored(res.vintage!);
+          setPreview(null);
+          setFile(null);
+          onStored();
+        },
+      },
+    );
   const p = preview?.series[0];
   const nextNumber = (p?.latestVintage ?? 0) + 1;
   return (
@@ -97,7 +85,7 @@ export function LoadPanel({ series, onStored }: { series: Series & { vintageCoun
               setFile(e.target.files?.[0] ?? null);
               setPreview(null);
               setStored(null);
-              setError(null);
+              load.reset();
             }}
           />
         </Field>

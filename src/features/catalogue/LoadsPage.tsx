@@ -1,9 +1,8 @@
-import { useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
 import { DataTable } from '@/components/DataTable';
 import { ErrorNote, Field, formatDate, PageHeader, Progress } from '@/components/ui';
-import { upload, type UploadProgress } from '@/lib/upload';
-import { useLoads, type LoadPreview } from './api';
+import type { UploadProgress } from '@/lib/upload';
+import { useLoad, useLoads, type LoadPreview } from './api';
 import { ProblemsTable } from './LoadPanel';
 
 const PHASES: Record<UploadProgress['phase'], string> = {
@@ -17,38 +16,34 @@ const PHASES: Record<UploadProgress['phase'], string> = {
 /** Loads of files carrying many series (SDMX-CSV), with a progress bar for long ones. */
 export function LoadsPage() {
   const loads = useLoads();
-  const qc = useQueryClient();
+  const load = useLoad({ stream: true });
   const [file, setFile] = useState<File | null>(null);
   const [asOf, setAsOf] = useState(new Date().toISOString().slice(0, 10));
   const [note, setNote] = useState('');
-  const [progress, setProgress] = useState<UploadProgress | null>(null);
   const [preview, setPreview] = useState<LoadPreview | null>(null);
   const [result, setResult] = useState<{ vintages: { code: string; number: number }[]; unchanged: string[] } | null>(null);
-  const [error, setError] = useState<unknown>(null);
-  const run = async (dryRun: boolean) => {
-    setError(null);
+  const { progress, error } = load;
+  const run = (dryRun: boolean) => {
     const f = new FormData();
     f.append('file', file!);
     if (!dryRun) {
       if (asOf) f.append('asOf', asOf);
       if (note) f.append('note', note);
     }
-    try {
-      const res = await upload<{ preview: LoadPreview; vintages?: { code: string; number: number }[]; unchanged?: string[] }>(`/loads${dryRun ? '?dryRun=1' : ''}`, f, setProgress, { stream: true });
-      if (dryRun) {
-        setPreview(res.preview);
-        setResult(null);
-      } else {
-        setResult({ vintages: res.vintages ?? [], unchanged: res.unchanged ?? [] });
-        setPreview(null);
-        qc.invalidateQueries({ queryKey: ['series'] });
-        qc.invalidateQueries({ queryKey: ['loads'] });
-      }
-    } catch (e) {
-      setError(e);
-    } finally {
-      setProgress(null);
-    }
+    load.mutate(
+      { path: `/loads${dryRun ? '?dryRun=1' : ''}`, form: f },
+      {
+        onSuccess: (res) => {
+          if (dryRun) {
+            setPreview(res.preview);
+            setResult(null);
+          } else {
+            setResult({ vintages: res.vintages ?? [], unchanged: res.unchanged ?? [] });
+            setPreview(null);
+          }
+        },
+      },
+    );
   };
   return (
     <>

@@ -6,12 +6,13 @@ import { levelChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
 import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
-import { hasRole, useMe } from '@/features/auth/api';
+import { useMe } from '@/features/auth/api';
 import { API } from '@/lib/api';
 import { useObservations, useSeries, useVintages } from './api';
 import { InventedBadge } from './CataloguePage';
 import { LoadPanel } from './LoadPanel';
 import { RevisionsPanel } from './RevisionsPanel';
+import { ACCESS, allows } from '@schemas/access';
 
 type Tab = 'overview' | 'vintages' | 'revisions' | 'load';
 
@@ -22,7 +23,7 @@ export function SeriesPage() {
   const [params, setParams] = useSearchParams();
   const tab = (params.get('tab') as Tab) || 'overview';
   const setTab = (t: Tab) => setParams({ tab: t }, { replace: true });
-  const canLoad = hasRole(me.data, 'steward', 'admin');
+  const canLoad = allows(ACCESS.catalogueWrite, me.data?.roles);
   if (series.isPending) return <Spinner />;
   if (series.error) return <ErrorNote error={series.error} />;
   const s = series.data;
@@ -39,7 +40,7 @@ export function SeriesPage() {
         title={s.title}
         actions={
           <>
-            {hasRole(me.data, 'economist') && s.vintageCount > 0 && (
+            {allows(ACCESS.studiesWrite, me.data?.roles) && s.vintageCount > 0 && (
               <Link to={`/studies/new?seriesId=${s.id}`} className="btn">
                 Decompose in a study
               </Link>

@@ -1,8 +1,9 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { CreateSeriesBody, FileProblem, LoadPreview, LoadSummary, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage } from '@schemas/catalogue';
+import type { CreateSeriesBody, FileProblem, LoadAnswer, LoadPreview, LoadSummary, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage } from '@schemas/catalogue';
+import { useUpload } from '@/lib/upload';
 
-export type { LoadPreview, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage };
+export type { LoadAnswer, LoadPreview, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage };
 export type Problem = FileProblem;
 
 export const useSeriesList = () => useQuery({ queryKey: ['series'], queryFn: () => api<{ items: SeriesListItem[] }>('/series').then((r) => r.items) });
@@ -33,5 +34,23 @@ export function useSaveSeries(id?: number) {
   return useMutation({
     mutationFn: (body: Partial<CreateSeriesBody>) => (id ? api<Series>(`/series/${id}`, { method: 'PATCH', json: body }) : api<Series>('/series', { method: 'POST', json: body })),
     onSuccess: () => qc.invalidateQueries({ queryKey: ['series'] }),
+  });
+}
+
+/**
+ * A load: `mutate({ path, form })` with path /series/:id/vintages or /loads, and ?dryRun=1 to
+ * preview. A stored load refreshes the Catalogue and the list of loads. Loads of many series
+ * stream their progress.
+ */
+export function useLoad(opts: { stream?: boolean } = {}) {
+  const qc = useQueryClient();
+  return useUpload<LoadAnswer>({
+    stream: opts.stream,
+    onSuccess: (answer) => {
+      if (answer.vintage || answer.load) {
+        qc.invalidateQueries({ queryKey: ['series'] });
+        qc.invalidateQueries({ queryKey: ['loads'] });
+      }
+    },
   });
 }

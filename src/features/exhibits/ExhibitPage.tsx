@@ -4,7 +4,9 @@ import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { z } from 'zod';
 import { fmt } from '@/components/charts/echarts';
+import { ACCESS, allows } from '@schemas/access';
 import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
+import { useMe } from '@/features/auth/api';
 import { MOVE_LABELS, STATE_LABELS, useDiff, useExhibit, useExhibitMutations, type Exhibit, type ExhibitState } from './api';
 import { ExhibitDownloads, ExhibitFigure } from './ExhibitFigure';
 
@@ -171,6 +173,7 @@ function ReviewPanel({ exhibit }: { exhibit: Exhibit }) {
 export function ExhibitPage() {
   const id = Number(useParams().id);
   const ex = useExhibit(id);
+  const me = useMe();
   const { remove } = useExhibitMutations(id);
   const navigate = useNavigate();
   if (ex.isPending) return <Spinner />;
@@ -194,7 +197,7 @@ export function ExhibitPage() {
       >
         <span className="flex flex-wrap items-center gap-2">
           <StateBadge state={e.status} /> by {e.author.name} · revision {e.revision}
-          {e.studyId && (
+          {e.studyId && allows(ACCESS.studiesRead, me.data?.roles) && (
             <Link to={`/studies/${e.studyId}`} className="text-trend underline">
               study
             </Link>

@@ -2,17 +2,18 @@ import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
 import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
-import { hasRole, useMe } from '@/features/auth/api';
+import { useMe } from '@/features/auth/api';
 import { useExhibits, useReviewQueue } from './api';
 import { StateBadge } from './ExhibitPage';
+import { ACCESS, allows } from '@schemas/access';
 
 export function ExhibitsPage() {
   const me = useMe();
-  const isWriter = hasRole(me.data, 'economist');
+  const isWriter = allows(ACCESS.exhibitsDraft, me.data?.roles);
   const [tab, setTab] = useState<'published' | 'mine' | 'all'>(isWriter ? 'mine' : 'published');
   const list = useExhibits(tab === 'published' ? { status: 'published' } : tab === 'mine' ? { mine: true } : {});
   const navigate = useNavigate();
-  const tabs: [typeof tab, string][] = [['published', 'Published'], ...(isWriter ? ([['mine', 'Mine']] as [typeof tab, string][]) : []), ...(hasRole(me.data, 'editor', 'admin') ? ([['all', 'All I can see']] as [typeof tab, string][]) : [])];
+  const tabs: [typeof tab, string][] = [['published', 'Published'], ...(isWriter ? ([['mine', 'Mine']] as [typeof tab, string][]) : []), ...(allows(['editor', 'admin'], me.data?.roles) ? ([['all', 'All I can see']] as [typeof tab, string][]) : [])];
   return (
     <>
       <PageHeader title="Exhibits">Charts prepared for publication. An exhibit renders from the data frozen when it was submitted.</PageHeader>

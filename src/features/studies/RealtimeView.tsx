@@ -3,7 +3,7 @@ import { Chart } from '@/components/charts/Chart';
 import { compareChart, fanChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
 import { ErrorNote, Progress } from '@/components/ui';
-import { apiStream } from '@/lib/api';
+import { apiStream } from '@/lib/ndjson';
 import type { RealtimeResult } from './api';
 
 const STAT_ROWS: [string, string, number][] = [

@@ -2,12 +2,13 @@ import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
 import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
-import { hasRole, useMe } from '@/features/auth/api';
+import { useMe } from '@/features/auth/api';
 import { useMethods, useStudies } from './api';
+import { ACCESS, allows } from '@schemas/access';
 
 export function StudiesPage() {
   const me = useMe();
-  const [mine, setMine] = useState(hasRole(me.data, 'economist'));
+  const [mine, setMine] = useState(allows(ACCESS.studiesWrite, me.data?.roles));
   const [method, setMethod] = useState('');
   const [q, setQ] = useState('');
   const studies = useStudies({ mine, method: method || undefined, q: q || undefined });
@@ -16,7 +17,7 @@ export function StudiesPage() {
   const nameOf = (id: string) => methods.find((m) => m.id === id)?.name ?? id;
   return (
     <>
-      <PageHeader title="Studies" actions={hasRole(me.data, 'economist') && <Link to="/studies/new" className="btn">New study</Link>}>
+      <PageHeader title="Studies" actions={allows(ACCESS.studiesWrite, me.data?.roles) && <Link to="/studies/new" className="btn">New study</Link>}>
         Saved decompositions: a series, a vintage (pinned, or the latest), a method and its parameters.
       </PageHeader>
       <div className="mb-3 flex flex-wrap items-center gap-3">

@@ -5,7 +5,7 @@ import { Link, useNavigate, useParams, useSearchParams } from 'react-router-dom'
 import { TRANSFORM_LABELS, TRANSFORMS } from '@schemas/decompose';
 import { createStudySchema, type CreateStudyBody, type StudySpec } from '@schemas/studies';
 import { EmptyState, ErrorNote, Field, PageHeader, Spinner } from '@/components/ui';
-import { hasRole, useMe } from '@/features/auth/api';
+import { useMe } from '@/features/auth/api';
 import { useSeriesList, useVintages } from '@/features/catalogue/api';
 import { API } from '@/lib/api';
 import { useDebounced } from '@/lib/useDebounced';
@@ -14,6 +14,7 @@ import { CompareView } from './CompareView';
 import { DecompositionView } from './DecompositionView';
 import { ParamsEditor } from './ParamsEditor';
 import { RealtimeView } from './RealtimeView';
+import { ACCESS, allows } from '@schemas/access';
 
 export function StudyPage() {
   const { id } = useParams();
@@ -32,7 +33,7 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
   const action = useStudyAction();
   const [tab, setTab] = useState<'decomposition' | 'compare' | 'realtime'>('decomposition');
   const isOwner = !study || study.owner.id === me.data?.id;
-  const canEdit = hasRole(me.data, 'economist') && isOwner;
+  const canEdit = allows(ACCESS.studiesWrite, me.data?.roles) && isOwner;
   const form = useForm<CreateStudyBody>({
     resolver: zodResolver(createStudySchema) as never,
     defaultValues: study
@@ -81,12 +82,12 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
                 </a>
               </>
             )}
-            {study && hasRole(me.data, 'economist') && (
+            {study && allows(ACCESS.exhibitsDraft, me.data?.roles) && (
               <Link className="btn" to={`/exhibits/new?studyId=${study.id}&title=${encodeURIComponent(study.title)}`}>
                 Draft an exhibit
               </Link>
             )}
-            {study && hasRole(me.data, 'economist') && (
+            {study && allows(ACCESS.studiesWrite, me.data?.roles) && (
               <button className="btn-quiet" onClick={() => action.mutate({ id: study.id, action: 'duplicate' }, { onSuccess: (s) => { if (s) navigate(`/studies/${s.id}`); } })}>
                 Duplicate
               </button>

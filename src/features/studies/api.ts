@@ -13,9 +13,10 @@ export function useMethod(id: string | undefined): MethodDescription | undefined
   return useMethods().data?.methods.find((m) => m.id === id);
 }
 
-export const useStudies = (filter: { mine?: boolean; method?: string; q?: string; seriesId?: number }) =>
+export const useStudies = (filter: { mine?: boolean; method?: string; q?: string; seriesId?: number }, enabled = true) =>
   useQuery({
     queryKey: ['studies', filter],
+    enabled,
     queryFn: () => {
       const p = new URLSearchParams();
       if (filter.mine) p.set('mine', '1');

@@ -1,17 +1,19 @@
 import type { ReactNode } from 'react';
 import { Link } from 'react-router-dom';
-import { ROLE_LABELS, type Role } from '@schemas/people';
-import { hasRole, useMe } from './api';
+import { allows, type Access } from '@schemas/access';
+import { ROLE_LABELS, ROLES } from '@schemas/people';
+import { useMe } from '@/features/auth/api';
 
-/** Shows its children only to the given roles; anyone else who follows a link gets a clear page. */
-export function RequireRole({ roles, children }: { roles: Role[]; children: ReactNode }) {
+/** Shows its children to those the access rule lets in (server/schemas/access.ts); anyone else who follows a link gets a clear page. */
+export function RequireRole({ access, children }: { access: Access; children: ReactNode }) {
   const me = useMe();
   if (!me.data) return null;
-  if (hasRole(me.data, ...roles)) return <>{children}</>;
-  return <RoleNeeded roles={roles} />;
+  if (allows(access, me.data.roles)) return <>{children}</>;
+  return <RoleNeeded access={access} />;
 }
 
-export function RoleNeeded({ roles }: { roles: Role[] }) {
+export function RoleNeeded({ access }: { access: Access }) {
+  const roles = typeof access === 'string' ? ROLES : access;
   const names = roles.map((r) => ROLE_LABELS[r].toLowerCase());
   const list = names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} or ${names[names.length - 1]}`;
   return (

@@ -1,19 +1,12 @@
 import { Navigate, NavLink, Outlet, useLocation } from 'react-router-dom';
+import { allows, PAGES } from '@schemas/access';
 import { CAUTIONS } from '@schemas/cautions';
-import type { Role } from '@schemas/people';
+import { Spinner } from '@/components/ui';
+import { useMe, useSignOut } from '@/features/auth/api';
 import { StatusLine } from '@/features/system/StatusLine';
-import { hasRole, useMe, useSignOut } from '@/features/auth/api';
-import { Spinner } from './ui';
 
-/** Navigation; each entry is shown only to the roles that can use it. */
-export const NAV: { to: string; label: string; roles?: Role[] }[] = [
-  { to: '/catalogue', label: 'Catalogue' },
-  { to: '/studies', label: 'Studies', roles: ['economist', 'editor', 'admin'] },
-  { to: '/boards', label: 'Boards' },
-  { to: '/exhibits', label: 'Exhibits' },
-  { to: '/review', label: 'Review desk', roles: ['editor'] },
-  { to: '/people', label: 'People', roles: ['admin'] },
-];
+/** The main navigation: the pages of the role map with a label, each shown to those it lets in. */
+const NAV = PAGES.flatMap((p) => ('nav' in p ? [{ to: p.path, label: p.nav, access: p.access }] : []));
 
 export function Layout() {
   const me = useMe();
@@ -43,7 +36,7 @@ export function Layout() {
             <span className="font-heading text-lg font-bold tracking-tight">Tidegauge</span>
           </NavLink>
           <nav aria-label="Main" className="flex flex-1 gap-1">
-            {NAV.filter((item) => !item.roles || hasRole(user, ...item.roles)).map((item) => (
+            {NAV.filter((item) => allows(item.access, user.roles)).map((item) => (
               <NavLink
                 key={item.to}
                 to={item.to}

@@ -1,10 +1,11 @@
 import { Link } from 'react-router-dom';
 import { formatDate, PageHeader } from '@/components/ui';
-import { hasRole, useMe } from '@/features/auth/api';
+import { useMe } from '@/features/auth/api';
 import { useLoads, useSeriesList } from '@/features/catalogue/api';
 import { useExhibits, useReviewQueue } from '@/features/exhibits/api';
 import { StateBadge } from '@/features/exhibits/ExhibitPage';
 import { useStudies } from '@/features/studies/api';
+import { ACCESS, allows } from '@schemas/access';
 
 function Card({ title, children, to, action }: { title: string; children: React.ReactNode; to?: string; action?: string }) {
   return (
@@ -25,9 +26,9 @@ export function HomePage() {
   const me = useMe();
   const series = useSeriesList();
   const loads = useLoads();
-  const economist = hasRole(me.data, 'economist');
-  const editor = hasRole(me.data, 'editor');
-  const studies = useStudies({ mine: true });
+  const economist = allows(ACCESS.studiesWrite, me.data?.roles);
+  const editor = allows(ACCESS.review, me.data?.roles);
+  const studies = useStudies({ mine: true }, economist);
   const mine = useExhibits({ mine: true });
   const published = useExhibits({ status: 'published' });
   const review = useReviewQueue(editor);
