@@ -93,8 +93,12 @@ describe('studies', () => {
     expect(res.body.turningPoints.length).toBeGreaterThan(2);
     expect(res.body.gain.cutoff).toBeCloseTo(39.7, 1);
     expect(res.body.endOfSamplePeriods).toBe(8);
-    expect(res.body.cautions.join(' ')).toMatch(/revised/);
     expect(res.body.unitOfCycle).toBe('% of trend');
+    // The two-sided caution names this frequency's two years; a one-sided method carries none and shades nothing.
+    expect(res.body.warnings[0]).toBe('Two-sided filter: the last 8 quarters (two years) use data that do not exist yet and will be revised as new data arrive.');
+    const oneSided = await economist.post('/api/v1/studies/preview').send({ seriesId: gdpId, vintage: 4, transform: 'log100', method: 'hamilton' }).expect(200);
+    expect(oneSided.body.endOfSamplePeriods).toBe(0);
+    expect(oneSided.body.warnings.some((w: string) => /Two-sided/.test(w))).toBe(false);
   });
 
   it('compares methods on one series and one method across series, with cross-correlations', async () => {
@@ -105,8 +109,40 @@ describe('studies', () => {
       .expect(200);
     expect(methods.body.items).toHaveLength(4);
     expect(methods.body.items[1].crossCorrelations).toHaveLength(17);
-    const lag0 = methods.body.items[0].crossCorrelations.find((x: { lag: number }) => x.lag === 0);
-    expect(lag0.r).toBeCloseTo(1, 12);
+    // The one-sided HP (item 1) against the two-sided HP (item 0, the reference), recomputed here from
+    // the aligned cycles the answer carries: corr(cₜ, referenceₜ₊ₖ) over the periods where both exist.
+    const pearson = (x: number[], y: number[]) => {
+      const mx = x.reduce((a, b) => a + b, 0) / x.length;
+      const my = y.reduce((a, b) => a + b, 0) / y.length;
+      let sxy = 0;
+      let sxx = 0;
+      let syy = 0;
+      x.forEach((v, i) => {
+        sxy += (v - mx) * (y[i] - my);
+        sxx += (v - mx) ** 2;
+        syy += (y[i] - my) ** 2;
+      });
+      return sxy / Math.sqrt(sxx * syy);
+    };
+    const [ref, one] = [methods.body.items[0].cycle, methods.body.items[1].cycle] as (number | null)[][];
+    for (const k of [-3, 0, 2]) {
+      const xs: number[] = [];
+      const ys: number[] = [];
+      one.forEach((c, t) => {
+        const r = ref[t + k];
+        if (c !== null && r !== null && r !== undefined) {
+          xs.push(c);
+          ys.push(r);
+        }
+      });
+      const got = methods.body.items[1].crossCorrelations.find((x: { lag: number }) => x.lag === k);
+      expect(got.n).toBe(xs.length);
+      expect(got.r).toBeCloseTo(pearson(xs, ys), 10);
+    }
+    // Real-time and two-sided gaps move together, but the end points differ: correlated, not identical.
+    const lag0 = methods.body.items[1].crossCorrelations.find((x: { lag: number }) => x.lag === 0).r;
+    expect(lag0).toBeGreaterThan(0.3);
+    expect(lag0).toBeLessThan(0.999);
     const series = await economist
       .post('/api/v1/studies/compare')
       .send({ items: [{ seriesId: gdpId, transform: 'log100', method: 'hp' }, { seriesId: cg, transform: 'none', method: 'hp', params: { lambda: 400000 } }], reference: 0, maxLag: 4 })

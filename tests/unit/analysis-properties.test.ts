@@ -223,7 +223,15 @@ describe('validation: each bad request says what to change', () => {
   });
   it('log100 reads the cycle as a percent deviation from trend', () => {
     const r = decompose({ frequency: 'Q', values: R.series.realgdp, transform: 'log100', method: 'hp' });
+    const log = decompose({ frequency: 'Q', values: R.series.realgdp, transform: 'log', method: 'hp' });
     expect(r.input[0]).toBeCloseTo(100 * Math.log(2710.349), 10);
-    r.cycle.forEach((c, i) => expect(c).toBeCloseTo(r.input[i] - r.trend[i], 10));
+    // HP is linear: the 100 × log cycle is 100 times the log cycle.
+    expect(relativeError(r.cycle, Array.from(log.cycle, (c) => 100 * c))).toBeLessThan(1e-12);
+    // And it is the percent deviation of the series from exp(trend): 100(y/T − 1) = c + c²/200 + O(c³).
+    const y = R.series.realgdp as number[];
+    r.cycle.forEach((c, i) => {
+      const percent = 100 * (y[i] / Math.exp(r.trend[i] / 100) - 1);
+      expect(Math.abs(percent - c - (c * c) / 200)).toBeLessThan(Math.abs(c) ** 3 / 1e4 + 1e-9);
+    });
   });
 });
