@@ -14,7 +14,7 @@
  * Band storage: `band[i*(b+1) + k] = A[i][i+k]` for k = 0..b (entries past the end are ignored).
  * A specialised pentadiagonal (b = 2) path carries the Hodrick–Prescott filter.
  *
- * Reference check: tests/unit/banded.test.ts compares the solutions with scipy.linalg.solveh_banded
+ * Reference check: tests/unit/analysis-references.test.ts compares the solutions with scipy.linalg.solveh_banded
  * (fixture made by scripts/make_references.py).
  */
 
@@ -106,7 +106,7 @@ export function factorToeplitz(n: number, c: ArrayLike<number>): BandedFactor {
  * Forward substitution and scaling: returns w with L·w = r (w is *not* divided by d). The last
  * element of the solution of A·x = r is w[n−1]/d[n−1]; the one-sided filter uses exactly that.
  */
-export function forwardSubstitute(f: BandedFactor, r: ArrayLike<number>, out: Float64Array = new Float64Array(f.n)): Float64Array {
+function forwardSubstitute(f: BandedFactor, r: ArrayLike<number>, out: Float64Array = new Float64Array(f.n)): Float64Array {
   const { n, b, l } = f;
   if (b === 2) {
     let zm1 = 0;
@@ -150,25 +150,6 @@ export function solveFactored(f: BandedFactor, r: ArrayLike<number>, out: Float6
     let s = out[i] / d[i];
     const mMax = Math.min(b, n - 1 - i);
     for (let m = 1; m <= mMax; m++) s -= l[(i + m) * b + m - 1] * out[i + m];
-    out[i] = s;
-  }
-  return out;
-}
-
-/** One-shot solve of a symmetric positive-definite banded system. */
-export function solveBanded(band: Float64Array, n: number, b: number, r: ArrayLike<number>): Float64Array {
-  return solveFactored(factorBanded(band, n, b), r);
-}
-
-/** y = A·x for A in band storage (used by tests and by the ℓ1 solver's residuals). */
-export function multiplyBanded(band: Float64Array, n: number, b: number, x: ArrayLike<number>, out: Float64Array = new Float64Array(n)): Float64Array {
-  const w = b + 1;
-  for (let i = 0; i < n; i++) {
-    let s = band[i * w] * x[i];
-    for (let k = 1; k <= b; k++) {
-      if (i + k < n) s += band[i * w + k] * x[i + k];
-      if (i - k >= 0) s += band[(i - k) * w + k] * x[i - k];
-    }
     out[i] = s;
   }
   return out;
@@ -267,23 +248,6 @@ export function toeplitzForward(f: PentaToeplitzFactor, r: ArrayLike<number>, m:
     out[i] = zi;
     zm2 = zm1;
     zm1 = zi;
-  }
-  return out;
-}
-
-/** Solves the m×m leading block: A·x = r. `out` may alias `r`. */
-export function toeplitzSolve(f: PentaToeplitzFactor, r: ArrayLike<number>, m: number, out: Float64Array = new Float64Array(m)): Float64Array {
-  toeplitzForward(f, r, m, out);
-  let xp1 = 0;
-  let xp2 = 0;
-  for (let i = m - 1; i >= 0; i--) {
-    const di = i < f.K ? f.d[i] : f.dInf;
-    const a1 = i + 1 < m ? (i + 1 < f.K ? f.l1[i + 1] : f.l1Inf) : 0;
-    const a2 = i + 2 < m ? (i + 2 < f.K ? f.l2[i + 2] : f.l2Inf) : 0;
-    const xi = out[i] / di - a1 * xp1 - a2 * xp2;
-    out[i] = xi;
-    xp2 = xp1;
-    xp1 = xi;
   }
   return out;
 }

@@ -3,7 +3,7 @@
  * the band to tridiagonal form with bulge chasing (Schwarz 1968; LAPACK dsbtrd does the same),
  * then the implicit QL method with Wilkinson-type shifts for a symmetric tridiagonal matrix
  * (Press et al., Numerical Recipes, 2nd ed., §11.3, routine tqli, eigenvalues only).
- * O(n²) time, O(n) memory. Checked against numpy.linalg.eigvalsh (tests/unit/eigen.test.ts).
+ * O(n²) time, O(n) memory. Checked against numpy.linalg.eigvalsh (tests/unit/analysis-references.test.ts).
  */
 
 /** Eigenvalues (ascending) of the symmetric matrix with diagonals a0[i]=A[i][i], a1[i]=A[i][i+1], a2[i]=A[i][i+2]. */
@@ -75,7 +75,7 @@ export function pentadiagonalEigenvalues(a0: ArrayLike<number>, a1: ArrayLike<nu
  * Implicit QL on a symmetric tridiagonal matrix: d the diagonal, e[i] the element coupling i and
  * i+1 (e[n−1] = 0). On return d holds the eigenvalues (unsorted); e is destroyed.
  */
-export function tridiagonalEigenvalues(d: Float64Array, e: Float64Array): void {
+function tridiagonalEigenvalues(d: Float64Array, e: Float64Array): void {
   const n = d.length;
   const EPS = Number.EPSILON;
   for (let l = 0; l < n; l++) {

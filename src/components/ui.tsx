@@ -95,3 +95,16 @@ export function formatDate(iso: string | null | undefined, withTime = false) {
   const date = d.toISOString().slice(0, 10);
   return withTime ? `${date} ${d.toISOString().slice(11, 16)} UTC` : date;
 }
+
+/** A row of tabs: `tabs` are [id, label] pairs; the chosen one is `value`. */
+export function Tabs<T extends string>({ tabs, value, onChange }: { tabs: readonly (readonly [T, string])[]; value: T; onChange: (id: T) => void }) {
+  return (
+    <div role="tablist" className="mb-4 flex gap-1 border-b border-hairline">
+      {tabs.map(([id, label]) => (
+        <button key={id} role="tab" aria-selected={value === id} onClick={() => onChange(id)} className={`-mb-px border-b-2 px-3 py-2 text-sm font-semibold ${value === id ? 'border-trend text-ink' : 'border-transparent text-ink-soft hover:text-ink'}`}>
+          {label}
+        </button>
+      ))}
+    </div>
+  );
+}

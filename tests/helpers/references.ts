@@ -7,8 +7,6 @@ const here = path.dirname(fileURLToPath(import.meta.url));
 /** tests/fixtures/references.json, written by scripts/make_references.py (see its header). */
 export const references = JSON.parse(fs.readFileSync(path.join(here, '..', 'fixtures', 'references.json'), 'utf8'));
 
-export const toNaN = (a: (number | null)[]) => Float64Array.from(a, (v) => (v === null ? NaN : v));
-
 /** max |a − b| over the entries where b has a value, divided by max |b| (NaN must match NaN). */
 export function relativeError(actual: ArrayLike<number | null>, expected: ArrayLike<number | null>): number {
   if (actual.length !== expected.length) return Infinity;

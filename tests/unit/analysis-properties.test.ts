@@ -4,7 +4,8 @@ import { describe, expect, it } from 'vitest';
 import { AnalysisError, decompose, gainCurve, reliability, turningPoints } from '../../server/analysis/index.js';
 import { cutoffPeriod, lambdaForCutoff, ravnUhlig } from '../../server/schemas/methods.js';
 import { christianoFitzgerald, baxterKingWeights } from '../../server/analysis/bandpass.js';
-import { whittakerTrendWeighted, hpOneSidedTrendWeighted } from '../../server/analysis/whittaker.js';
+import { whittakerTrendWeighted } from '../../server/analysis/whittaker.js';
+import { hpOneSidedTrendWeighted } from '../../server/analysis/hp-one-sided.js';
 import { stencil } from '../../server/analysis/differences.js';
 import { references as R, relativeError } from '../helpers/references.js';
 

@@ -73,7 +73,7 @@ describe('one-sided HP — against end points of statsmodels hpfilter on expandi
       expect(relativeError(r.trend, c.trend)).toBeLessThan(TOL);
     });
     it(`λ = ${c.lambda}, through the updating factorization used with gaps`, async () => {
-      const { hpOneSidedTrendWeighted } = await import('../../server/analysis/whittaker.js');
+      const { hpOneSidedTrendWeighted } = await import('../../server/analysis/hp-one-sided.js');
       const t = hpOneSidedTrendWeighted(c.y, new Float64Array(c.y.length).fill(1), c.lambda);
       expect(relativeError(t, c.trend)).toBeLessThan(TOL);
     });

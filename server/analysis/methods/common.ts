@@ -7,6 +7,16 @@ import { HP_CONVENTION } from '../../schemas/methods.js';
 /** The smoothing parameter as the λ-based methods declare it. */
 export const LAMBDA_PARAM = { kind: 'lambda', label: 'Smoothing parameter λ' } as const;
 
+/** What the Hodrick–Prescott filters with λ alone share: the parameter and its conventions, the minimum, gaps with weight zero, the cautions. */
+export const hpLambdaOnly = {
+  params: { lambda: LAMBDA_PARAM },
+  defaults: (f: Frequency) => ({ lambda: HP_CONVENTION[f] }),
+  minimumLength: () => ({ count: 3 }),
+  gaps: 'weighted',
+  cautions: (p: { lambda: number }, f: Frequency) => hpFamilyCautions(p.lambda, f),
+  methodLine: (p: { lambda: number }) => `λ = ${fmt(p.lambda)}`,
+} as const;
+
 /** "1 600", "0.5", "1.23457e+20": numbers as method lines print them. */
 export function formatNumber(v: number): string {
   if (!Number.isFinite(v)) return String(v);

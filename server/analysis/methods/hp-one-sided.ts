@@ -16,21 +16,17 @@
  * Worked example: the reference test checks it against the end points of statsmodels' hpfilter
  * on expanding samples (scripts/make_references.py).
  */
-import { cutoffPeriod, HP_CONVENTION } from '../../schemas/methods.js';
+import { cutoffPeriod } from '../../schemas/methods.js';
 import { complexGain, hpEndpointWeights } from '../gain.js';
-import { hpOneSidedCycle, hpOneSidedTrendWeighted } from '../whittaker.js';
-import { fmt, hpFamilyCautions, LAMBDA_PARAM, minus, observationWeights, solveOrRefuse } from './common.js';
+import { hpOneSidedCycle, hpOneSidedTrendWeighted } from '../hp-one-sided.js';
+import { hpLambdaOnly, minus, observationWeights, solveOrRefuse } from './common.js';
 import { defineMethod } from './types.js';
 
 export const hpOneSided = defineMethod({
   id: 'hp-one-sided',
   name: 'Hodrick–Prescott, one-sided',
   twoSided: false,
-  params: { lambda: LAMBDA_PARAM },
-  defaults: (f) => ({ lambda: HP_CONVENTION[f] }),
-  minimumLength: () => ({ count: 3 }),
-  gaps: 'weighted',
-  cautions: (p, f) => hpFamilyCautions(p.lambda, f),
+  ...hpLambdaOnly,
   run(y, { lambda }, { gaps }) {
     const warnings = ['The one-sided filter starts at the third period, and its first years rest on few observations.'];
     const diagnostics = { cutoffPeriod: cutoffPeriod(lambda, 2) };
@@ -46,5 +42,4 @@ export const hpOneSided = defineMethod({
     const weights = hpEndpointWeights(lambda, Math.min(4000, Math.max(400, Math.ceil(20 * (cutoff ?? 40)))));
     return { response: (w) => complexGain(weights, w, 0, true), cutoff, note: 'gain of the end-point (real-time) filter; it also shifts the phase' };
   },
-  methodLine: (p) => `λ = ${fmt(p.lambda)}`,
 });

@@ -19,10 +19,10 @@
  * Worked example: y = [1, 2, 4, 7, 11] with λ = 1 has the trend [13/24, 9/4, 53/12, 29/4, 253/24]
  * (exact rational arithmetic in scripts/make_references.py; tests/unit/analysis-references.test.ts).
  */
-import { cutoffPeriod, HP_CONVENTION } from '../../schemas/methods.js';
+import { cutoffPeriod } from '../../schemas/methods.js';
 import { hpCycleGain } from '../gain.js';
 import { hpCycleInto, whittakerTrendFilled, whittakerTrendWeighted } from '../whittaker.js';
-import { fmt, hpFamilyCautions, LAMBDA_PARAM, minus, observationWeights, solveOrRefuse } from './common.js';
+import { hpLambdaOnly, minus, observationWeights, solveOrRefuse } from './common.js';
 import { defineMethod } from './types.js';
 
 /** The trend of a series with interior gaps for the Whittaker–Henderson family (hp and whittaker share it). */
@@ -35,11 +35,7 @@ export const hp = defineMethod({
   id: 'hp',
   name: 'Hodrick–Prescott',
   twoSided: true,
-  params: { lambda: LAMBDA_PARAM },
-  defaults: (f) => ({ lambda: HP_CONVENTION[f] }),
-  minimumLength: () => ({ count: 3 }),
-  gaps: 'weighted',
-  cautions: (p, f) => hpFamilyCautions(p.lambda, f),
+  ...hpLambdaOnly,
   run(y, { lambda }, { gaps }) {
     if (gaps > 0) {
       const trend = trendWithGaps(y, lambda, 2);
@@ -51,5 +47,4 @@ export const hp = defineMethod({
     return { trend, cycle, diagnostics: { cutoffPeriod: cutoffPeriod(lambda, 2) } };
   },
   gain: ({ lambda }) => ({ response: (w) => hpCycleGain(lambda, 2, w), cutoff: cutoffPeriod(lambda, 2) }),
-  methodLine: (p) => `λ = ${fmt(p.lambda)}`,
 });

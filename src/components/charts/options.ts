@@ -18,6 +18,16 @@ const yAxis = (name?: string, extra: Record<string, unknown> = {}) => ({
   axisLabel: { ...axisStyle.axisLabel, formatter: axisFmt },
   ...extra,
 });
+/** A line series in the house style: no symbols, the colour on the line and in the tooltip. */
+const lineSeries = (name: string, data: Num[], color: string, width: number, more: Record<string, unknown> = {}) => ({
+  name,
+  type: 'line',
+  data,
+  showSymbol: false,
+  lineStyle: { width, color, ...((more.lineStyle as object) ?? {}) },
+  itemStyle: { color },
+  ...Object.fromEntries(Object.entries(more).filter(([k]) => k !== 'lineStyle')),
+});
 const zoom = (n: number) => (n > 120 ? [{ type: 'inside', start: 0, end: 100 }, { type: 'slider', height: 18, bottom: 4, borderColor: COLORS.hairline }] : []);
 
 /** The last `k` periods of a two-sided estimate, shaded: they rest on data that will be revised. */
@@ -55,7 +65,7 @@ function markAreas(periods: string[], values: Num[], shadeLast: number | undefin
 
 /** A method's further series (bands) as thin dashed lines. */
 const extraLines = (extra: NamedValues[] | undefined) =>
-  (extra ?? []).map((e) => ({ name: e.name, type: 'line', data: e.values, showSymbol: false, lineStyle: { width: 1, type: 'dashed', color: COLORS.inkSoft }, itemStyle: { color: COLORS.inkSoft } }));
+  (extra ?? []).map((e) => lineSeries(e.name, e.values, COLORS.inkSoft, 1, { lineStyle: { type: 'dashed' } }));
 
 export interface NamedValues {
   name: string;
@@ -69,7 +79,7 @@ export function levelChart(opts: { periods: string[]; values: Num[]; name?: stri
     xAxis: xAxis(opts.periods),
     yAxis: yAxis(opts.unit),
     dataZoom: zoom(opts.periods.length),
-    series: [{ name: opts.name ?? 'observed', type: 'line', data: opts.values, showSymbol: false, lineStyle: { width: 1.25, color: COLORS.ink }, itemStyle: { color: COLORS.ink }, connectNulls: false }],
+    series: [lineSeries(opts.name ?? 'observed', opts.values, COLORS.ink, 1.25, { connectNulls: false })],
   };
 }
 
@@ -80,16 +90,8 @@ export function trendChart(opts: { periods: string[]; input: Num[]; trend: Num[]
     yAxis: yAxis(opts.unit),
     dataZoom: zoom(opts.periods.length),
     series: [
-      { name: 'observed', type: 'line', data: opts.input, showSymbol: false, lineStyle: { width: 1, color: COLORS.ink }, itemStyle: { color: COLORS.ink } },
-      {
-        name: 'trend',
-        type: 'line',
-        data: opts.trend,
-        showSymbol: false,
-        lineStyle: { width: 2, color: COLORS.trend },
-        itemStyle: { color: COLORS.trend },
-        markArea: markAreas(opts.periods, opts.trend, opts.shadeLast, opts.extension),
-      },
+      lineSeries('observed', opts.input, COLORS.ink, 1),
+      lineSeries('trend', opts.trend, COLORS.trend, 2, { markArea: markAreas(opts.periods, opts.trend, opts.shadeLast, opts.extension) }),
       ...extraLines(opts.extra),
     ],
   };
@@ -145,15 +147,7 @@ export function gainChart(opts: { periods: number[]; gain: number[]; cutoff: num
     xAxis: { type: 'log', name: `period (${opts.word})`, nameLocation: 'middle', nameGap: 26, ...axisStyle, min: 2, max: Math.max(...opts.periods) },
     yAxis: { type: 'value', name: 'gain', min: 0, ...axisStyle },
     series: [
-      {
-        name: 'gain',
-        type: 'line',
-        showSymbol: false,
-        data: opts.periods.map((p, i) => [p, opts.gain[i]]),
-        lineStyle: { width: 2, color: COLORS.ink },
-        itemStyle: { color: COLORS.ink },
-        markLine: { silent: true, symbol: 'none', lineStyle: { type: 'dashed', color: COLORS.trend }, data: marks },
-      },
+      { ...lineSeries('gain', [], COLORS.ink, 2), data: opts.periods.map((p, i) => [p, opts.gain[i]]), markLine: { silent: true, symbol: 'none', lineStyle: { type: 'dashed', color: COLORS.trend }, data: marks } },
     ],
   };
 }
@@ -179,15 +173,9 @@ export function vintagesChart(opts: { lines: NamedLine[]; unit?: string }) {
     xAxis: xAxis(periods),
     yAxis: yAxis(opts.unit),
     dataZoom: zoom(periods.length),
-    series: series.map((s, i) => ({
-      name: s.name,
-      type: 'line',
-      data: s.values,
-      showSymbol: false,
-      lineStyle: { width: i === n - 1 ? 2 : 1.25, color: vintageColor(i, n) },
-      itemStyle: { color: vintageColor(i, n) },
-      endLabel: i === n - 1 ? { show: true, formatter: s.name, color: vintageColor(i, n), fontFamily: FONT, fontWeight: 600 } : undefined,
-    })),
+    series: series.map((s, i) =>
+      lineSeries(s.name, s.values, vintageColor(i, n), i === n - 1 ? 2 : 1.25, { endLabel: i === n - 1 ? { show: true, formatter: s.name, color: vintageColor(i, n), fontFamily: FONT, fontWeight: 600 } : undefined }),
+    ),
   };
 }
 
@@ -216,15 +204,11 @@ export function compareChart(opts: { lines: NamedLine[]; unit?: string; zeroLine
     xAxis: xAxis(periods),
     yAxis: yAxis(opts.unit, { scale: !opts.zeroLine }),
     dataZoom: zoom(periods.length),
-    series: series.map((s, i) => ({
-      name: s.name,
-      type: 'line',
-      data: s.values,
-      showSymbol: false,
-      lineStyle: { width: i === 0 ? 2 : 1.5, color: COMPARE_COLORS[i % COMPARE_COLORS.length] },
-      itemStyle: { color: COMPARE_COLORS[i % COMPARE_COLORS.length] },
-      markLine: i === 0 && opts.zeroLine ? { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1 }, label: { show: false }, data: [{ yAxis: 0 }] } : undefined,
-    })),
+    series: series.map((s, i) =>
+      lineSeries(s.name, s.values, COMPARE_COLORS[i % COMPARE_COLORS.length], i === 0 ? 2 : 1.5, {
+        markLine: i === 0 && opts.zeroLine ? { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1 }, label: { show: false }, data: [{ yAxis: 0 }] } : undefined,
+      }),
+    ),
   };
 }
 
@@ -239,23 +223,8 @@ export function fanChart(opts: { lines: NamedLine[]; final: NamedLine; realTime:
     yAxis: yAxis(opts.unit, { scale: false }),
     dataZoom: zoom(periods.length),
     series: [
-      ...series.slice(0, n).map((s, i) => ({
-        name: s.name,
-        type: 'line',
-        data: s.values,
-        showSymbol: false,
-        lineStyle: { width: 1, color: vintageColor(i, n) },
-        itemStyle: { color: vintageColor(i, n) },
-      })),
-      {
-        name: opts.final.name,
-        type: 'line',
-        data: series[n].values,
-        showSymbol: false,
-        lineStyle: { width: 2, color: COLORS.ink },
-        itemStyle: { color: COLORS.ink },
-        markLine: { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1 }, label: { show: false }, data: [{ yAxis: 0 }] },
-      },
+      ...series.slice(0, n).map((s, i) => lineSeries(s.name, s.values, vintageColor(i, n), 1)),
+      lineSeries(opts.final.name, series[n].values, COLORS.ink, 2, { markLine: { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1 }, label: { show: false }, data: [{ yAxis: 0 }] } }),
       {
         name: 'real-time end points',
         type: 'scatter',

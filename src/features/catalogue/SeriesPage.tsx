@@ -5,7 +5,7 @@ import { Chart } from '@/components/charts/Chart';
 import { levelChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
 import { DataTable } from '@/components/DataTable';
-import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
+import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner, Tabs } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { API } from '@/lib/api';
 import { useObservations, useSeries, useVintages } from './api';
@@ -62,13 +62,7 @@ export function SeriesPage() {
         </span>
       </PageHeader>
       {s.notes && <p className="mb-4 max-w-3xl whitespace-pre-wrap text-sm text-ink-soft">{s.notes}</p>}
-      <div role="tablist" className="mb-4 flex gap-1 border-b border-hairline">
-        {tabs.map(([t, label]) => (
-          <button key={t} role="tab" aria-selected={tab === t} onClick={() => setTab(t)} className={`-mb-px border-b-2 px-3 py-2 text-sm font-semibold ${tab === t ? 'border-trend text-ink' : 'border-transparent text-ink-soft hover:text-ink'}`}>
-            {label}
-          </button>
-        ))}
-      </div>
+      <Tabs tabs={tabs} value={tab} onChange={setTab} />
       {tab === 'overview' && <Overview id={id} unit={s.unit} hasVintages={s.vintageCount > 0} />}
       {tab === 'vintages' && <VintageHistory id={id} code={s.code} />}
       {tab === 'revisions' && <RevisionsPanel id={id} unit={s.unit} />}

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
 import { DataTable } from '@/components/DataTable';
-import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
+import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner, Tabs } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { useExhibits, useReviewQueue } from './api';
 import { StateBadge } from './ExhibitPage';
@@ -17,13 +17,7 @@ export function ExhibitsPage() {
   return (
     <>
       <PageHeader title="Exhibits">Charts prepared for publication. An exhibit renders from the data frozen when it was submitted.</PageHeader>
-      <div role="tablist" className="mb-4 flex gap-1 border-b border-hairline">
-        {tabs.map(([t, label]) => (
-          <button key={t} role="tab" aria-selected={tab === t} onClick={() => setTab(t)} className={`-mb-px border-b-2 px-3 py-2 text-sm font-semibold ${tab === t ? 'border-trend text-ink' : 'border-transparent text-ink-soft hover:text-ink'}`}>
-            {label}
-          </button>
-        ))}
-      </div>
+      <Tabs tabs={tabs} value={tab} onChange={setTab} />
       {list.isPending && <Spinner />}
       <ErrorNote error={list.error} />
       {list.data?.length === 0 && <EmptyState title="No exhibits here">{isWriter ? 'Draft one from a study or a board panel.' : 'Published exhibits appear here.'}</EmptyState>}

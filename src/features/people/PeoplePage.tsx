@@ -5,7 +5,7 @@ import { useForm } from 'react-hook-form';
 import { Link } from 'react-router-dom';
 import { inviteSchema, ROLE_LABELS, ROLES, type InviteBody, type Role } from '@schemas/people';
 import { DataTable } from '@/components/DataTable';
-import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
+import { ErrorNote, Field, formatDate, PageHeader, Spinner, Tabs } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { useAudit, useInvitationAction, useInvitations, useInvite, usePeople, useSettings, useUpdatePerson, useUpdateSettings, type Person } from './api';
 
@@ -22,13 +22,7 @@ export function PeoplePage() {
       <PageHeader title="People" actions={<Link to="/people/mailbox" className="btn-quiet">Mailbox</Link>}>
         Who can use Tidegauge and what they may do.
       </PageHeader>
-      <div role="tablist" className="mb-4 flex gap-1 border-b border-hairline">
-        {tabs.map(([id, label]) => (
-          <button key={id} role="tab" aria-selected={tab === id} onClick={() => setTab(id)} className={`-mb-px border-b-2 px-3 py-2 text-sm font-semibold ${tab === id ? 'border-trend text-ink' : 'border-transparent text-ink-soft hover:text-ink'}`}>
-            {label}
-          </button>
-        ))}
-      </div>
+      <Tabs tabs={tabs} value={tab} onChange={setTab} />
       {tab === 'people' && <PeopleTab />}
       {tab === 'invitations' && <InvitationsTab />}
       {tab === 'audit' && <AuditTab />}

@@ -4,7 +4,7 @@ import { Controller, useForm, useWatch } from 'react-hook-form';
 import { Link, useNavigate, useParams, useSearchParams } from 'react-router-dom';
 import { TRANSFORM_LABELS, TRANSFORMS } from '@schemas/decompose';
 import { createStudySchema, type CreateStudyBody, type StudySpec } from '@schemas/studies';
-import { EmptyState, ErrorNote, Field, PageHeader, Spinner } from '@/components/ui';
+import { EmptyState, ErrorNote, Field, PageHeader, Spinner, Tabs } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { useSeriesList, useVintages } from '@/features/catalogue/api';
 import { API } from '@/lib/api';
@@ -207,19 +207,15 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
           )}
         </form>
         <section aria-label="Results">
-          <div role="tablist" className="mb-4 flex gap-1 border-b border-hairline">
-            {(
-              [
-                ['decomposition', 'Decomposition'],
-                ['compare', 'Compare'],
-                ['realtime', 'Real-time revisions'],
-              ] as const
-            ).map(([t, label]) => (
-              <button key={t} role="tab" aria-selected={tab === t} onClick={() => setTab(t)} className={`-mb-px border-b-2 px-3 py-2 text-sm font-semibold ${tab === t ? 'border-trend text-ink' : 'border-transparent text-ink-soft hover:text-ink'}`}>
-                {label}
-              </button>
-            ))}
-          </div>
+          <Tabs
+            tabs={[
+              ['decomposition', 'Decomposition'],
+              ['compare', 'Compare'],
+              ['realtime', 'Real-time revisions'],
+            ]}
+            value={tab}
+            onChange={setTab}
+          />
           {!spec && <EmptyState title="Choose a series">Only series with at least one vintage can be decomposed.</EmptyState>}
           {tab === 'decomposition' && spec && (
             <>

@@ -8,10 +8,6 @@ export type { CompareResult, MethodDescription, RealtimeResult, Study, StudyResu
 /** The method catalogue (GET /methods): names, parameters and their defaults, read once. */
 export const useMethods = () => useQuery({ queryKey: ['methods'], queryFn: () => api<MethodsAnswer>('/methods'), staleTime: Infinity });
 
-/** One method's description, when the catalogue has loaded. */
-export function useMethod(id: string | undefined): MethodDescription | undefined {
-  return useMethods().data?.methods.find((m) => m.id === id);
-}
 
 export const useStudies = (filter: { mine?: boolean; method?: string; q?: string; seriesId?: number }, enabled = true) =>
   useQuery({
