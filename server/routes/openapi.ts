@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import { METHOD_REGISTRY } from '../analysis/methods/index.js';
+import { paramsSchema } from '../analysis/methods/params.js';
 import type { Config } from '../config.js';
 import type { RegisteredRoute, RouteSpec } from '../lib/http.js';
 import { version } from '../lib/version.js';
@@ -43,6 +45,8 @@ export function buildOpenApi(routes: RegisteredRoute[], config: Config) {
         bearer: { type: 'http', scheme: 'bearer' },
       },
       schemas: {
+        // The params object of each decomposition method (POST /decompose `params`), from the method registry.
+        ...Object.fromEntries(METHOD_REGISTRY.map((m) => [`Params_${m.id.replace(/[^A-Za-z0-9]/g, '_')}`, { ...jsonSchema(paramsSchema(m.params)), title: `${m.name}: params` }])),
         Error: {
           type: 'object',
           required: ['error'],

@@ -30,12 +30,12 @@ export function Layout() {
         Skip to content
       </a>
       <header className="border-b border-hairline bg-paper">
-        <div className="mx-auto flex max-w-7xl items-center gap-8 px-6 py-3">
+        <div className="mx-auto flex max-w-7xl flex-wrap items-center gap-x-8 gap-y-2 px-6 py-3">
           <NavLink to="/" className="flex items-center gap-2">
             <img src="/favicon.svg" alt="" className="h-7 w-7" />
             <span className="font-heading text-lg font-bold tracking-tight">Tidegauge</span>
           </NavLink>
-          <nav aria-label="Main" className="flex flex-1 gap-1">
+          <nav aria-label="Main" className="order-last flex w-full gap-1 overflow-x-auto md:order-none md:w-auto md:flex-1">
             {NAV.filter((item) => allows(item.access, user.roles)).map((item) => (
               <NavLink
                 key={item.to}
@@ -46,7 +46,7 @@ export function Layout() {
               </NavLink>
             ))}
           </nav>
-          <div className="flex items-center gap-3 text-sm">
+          <div className="ml-auto flex items-center gap-3 text-sm md:ml-0">
             <NavLink to="/profile" className="text-ink-soft hover:text-ink" data-testid="user-menu">
               {user.name}
             </NavLink>
@@ -60,7 +60,7 @@ export function Layout() {
         <Outlet />
       </main>
       <footer className="border-t border-hairline">
-        <div className="mx-auto flex max-w-7xl items-center justify-between px-6 py-2">
+        <div className="mx-auto flex max-w-7xl flex-wrap items-center justify-between gap-x-4 gap-y-1 px-6 py-2">
           <StatusLine />
           <span className="text-xs text-ink-faint">{CAUTIONS[2]}</span>
         </div>

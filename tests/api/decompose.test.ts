@@ -151,6 +151,15 @@ describe('methods, gain and λ', () => {
     expect(res.body.methods.map((m: { id: string }) => m.id)).toContain('christiano-fitzgerald');
     expect(res.body.presets.Q.map((p: { lambda: number }) => p.lambda)).toEqual([1600, 1600, 400000]);
     expect(res.body.presets.M.find((p: { id: string }) => p.id === 'ravn-uhlig').lambda).toBe(129600);
+    // The parameter editor renders from these descriptions: Whittaker's order is a choice with labels.
+    const whittaker = res.body.methods.find((m: { id: string }) => m.id === 'whittaker');
+    expect(whittaker.params.find((p: { name: string }) => p.name === 'order').options.map((o: { value: number }) => o.value)).toEqual([1, 2, 3]);
+    expect(res.body.methods.find((m: { id: string }) => m.id === 'l1-trend').initial.Q).toEqual({ lambda: 10 });
+    // OpenAPI reads the same registry: the body's method list and each method's params.
+    const doc = (await agent.get('/api/v1/openapi.json').expect(200)).body;
+    const body = doc.paths['/api/v1/decompose'].post.requestBody.content['application/json'].schema;
+    expect(body.properties.method.enum).toEqual(res.body.methods.map((m: { id: string }) => m.id));
+    expect(doc.components.schemas.Params_whittaker.properties.order.anyOf.map((o: { const: number }) => o.const)).toEqual([1, 2, 3]);
   });
   it('converts λ to the cut-off period and back', async () => {
     const a = await agent.get('/api/v1/lambda?lambda=1600').expect(200);
