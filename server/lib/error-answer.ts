@@ -11,6 +11,7 @@ import { AnalysisError } from '../analysis/errors.js';
 import type { Config } from '../config.js';
 import { isDbUnavailable } from '../db.js';
 import { HttpError } from './errors.js';
+import { conflictExhausted, isDeadlock } from './retry.js';
 import type { Logger } from './logger.js';
 
 export interface ErrorAnswer {
@@ -41,6 +42,11 @@ export function errorAnswer(err: unknown, limits?: Limits): ErrorAnswer {
   if (err instanceof multer.MulterError) {
     if (err.code === 'LIMIT_FILE_SIZE') return answer(413, 'file_too_large', `The file is larger than the limit${limits ? ` of ${mb(limits.maxUploadBytes)} MB` : ''}.`);
     return answer(400, 'invalid_upload', `The upload is not valid (${err.message}); send one file in the field "file".`);
+  }
+  // A single statement outside transaction() that lost a deadlock or a cluster certification.
+  if (isDeadlock(err)) {
+    const e = conflictExhausted(1);
+    return answer(e.status, e.code, e.message, undefined, e.headers);
   }
   if (isDbUnavailable(err)) {
     return answer(503, 'database_unavailable', 'The database is not reachable right now. Nothing was changed; try again in a moment.', undefined, { 'Retry-After': '5' });

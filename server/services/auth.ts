@@ -9,6 +9,7 @@ import { randomToken, sha256 } from '../lib/secrets.js';
 import { composeMail } from '../mail/mailer.js';
 import { audit } from './audit.js';
 import { loadUser, publicUser, type PeopleDeps } from './people/users.js';
+import { transaction } from '../lib/retry.js';
 
 const RESET_MINUTES = 60;
 
@@ -64,7 +65,7 @@ export async function requestPasswordReset(deps: PeopleDeps, email: string, ip?:
 export async function completePasswordReset(deps: PeopleDeps, input: { token: string; password: string }, ip: string, userAgent?: string) {
   const { db, lucia } = deps;
   const passwordHash = await hashPassword(input.password);
-  const userId = await db.transaction(async (trx) => {
+  const userId = await transaction(db, async (trx) => {
     const row = await trx('password_resets').where('token_hash', sha256(input.token)).forUpdate().first();
     if (!row) throw gone('link_invalid', 'This reset link is not valid. Ask for a new one from the sign-in page.');
     if (row.used_at) throw gone('link_used', 'This reset link has already been used. Ask for a new one from the sign-in page.');

@@ -12,6 +12,7 @@ export type { Board, Panel, PanelData };
 import type { StudyResult } from '../schemas/studies.js';
 import { computeSpec } from './studies/results.js';
 import { getStudy } from './studies/studies.js';
+import { transaction } from '../lib/retry.js';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
 
@@ -91,7 +92,7 @@ async function checkStudies(db: Db, ids: number[]) {
 
 export async function addPanel(db: Db, user: PublicUser, boardId: number, body: PanelBody) {
   await checkStudies(db, body.studyIds);
-  return db.transaction(async (trx) => {
+  return transaction(db, async (trx) => {
     await ownBoard(trx, user, boardId);
     await trx('boards').where('id', boardId).forUpdate().select('id');
     const [{ max }] = await trx('board_panels').where('board_id', boardId).max({ max: 'position' });
@@ -148,7 +149,7 @@ export async function deletePanel(db: Db, user: PublicUser, boardId: number, pan
 }
 
 export async function reorderPanels(db: Db, user: PublicUser, boardId: number, panelIds: number[]) {
-  await db.transaction(async (trx) => {
+  await transaction(db, async (trx) => {
     await ownBoard(trx, user, boardId);
     const existing = (await trx('board_panels').where('board_id', boardId).forUpdate().select('id')).map((r) => r.id).sort();
     if (JSON.stringify([...panelIds].sort()) !== JSON.stringify(existing)) throw conflict('panels_changed', 'Send every panel of the board exactly once, in the new order.');

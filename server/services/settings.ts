@@ -1,4 +1,5 @@
 import type { Db } from '../db.js';
+import { transaction } from '../lib/retry.js';
 import { audit } from './audit.js';
 
 export interface WorkspaceSettings {
@@ -16,7 +17,7 @@ export async function getSettings(db: Db): Promise<WorkspaceSettings> {
 }
 
 export async function updateSettings(db: Db, actorId: number, change: Partial<WorkspaceSettings>, ip?: string) {
-  await db.transaction(async (trx) => {
+  await transaction(db, async (trx) => {
     for (const [key, value] of Object.entries(change)) {
       await trx.raw('INSERT INTO settings (`key`, value, updated_at) VALUES (?, ?, NOW(3)) ON DUPLICATE KEY UPDATE value = VALUES(value), updated_at = NOW(3)', [key, JSON.stringify(value)]);
     }

@@ -5,6 +5,7 @@ import { conflict, notFound } from '../../lib/errors.js';
 import type { CreateSeriesBody, Series, SeriesListItem } from '../../schemas/catalogue.js';
 import { audit } from '../audit.js';
 import { dateOnly, iso, toSeries } from './rows.js';
+import { transaction } from '../../lib/retry.js';
 
 export async function listSeries(db: Db, filter: { q?: string; frequency?: string; unit?: string } = {}): Promise<SeriesListItem[]> {
   // The latest vintage through the (series_id, number) unique index: no scan of all vintages.
@@ -32,7 +33,7 @@ export async function getSeries(db: Db | Knex.Transaction, id: number): Promise<
 
 export async function createSeries(db: Db, actorId: number, body: CreateSeriesBody, ip?: string) {
   try {
-    const id = await db.transaction(async (trx) => {
+    const id = await transaction(db, async (trx) => {
       const [newId] = await trx('series').insert({
         code: body.code,
         title: body.title,
@@ -73,7 +74,7 @@ export async function updateSeries(db: Db, actorId: number, id: number, body: Pa
   if (body.notes !== undefined) change.notes = body.notes;
   if (body.sdmxKey !== undefined) change.sdmx_key = body.sdmxKey || null;
   try {
-    await db.transaction(async (trx) => {
+    await transaction(db, async (trx) => {
       await trx('series').where('id', id).update({ ...change, updated_at: new Date() });
       await audit(trx, { actorId, action: 'series.update', targetType: 'series', targetId: id, details: { fields: Object.keys(change) }, ip });
     });
@@ -90,7 +91,7 @@ export async function deleteSeries(db: Db, actorId: number, id: number, ip?: str
   if (Number(n) > 0) throw conflict('series_has_vintages', 'A series with stored vintages cannot be deleted: its releases are kept for good.');
   const [{ s }] = await db('studies').where('series_id', id).count({ s: '*' });
   if (Number(s) > 0) throw conflict('series_in_use', 'Studies use this series; it cannot be deleted.');
-  await db.transaction(async (trx) => {
+  await transaction(db, async (trx) => {
     await trx('series').where('id', id).delete();
     await audit(trx, { actorId, action: 'series.delete', targetType: 'series', targetId: id, ip });
   });

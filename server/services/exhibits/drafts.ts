@@ -7,6 +7,7 @@ import { panelById, panelData } from '../boards.js';
 import { computeSpec } from '../studies/results.js';
 import { getStudy } from '../studies/studies.js';
 import { canSee, exhibitRow, getExhibit, type ExhibitDeps } from './read.js';
+import { transaction } from '../../lib/retry.js';
 
 export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: CreateExhibitBody, ip?: string) {
   const { db } = deps;
@@ -23,7 +24,7 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
     units ??= data.unit;
     sourceLine ??= [...new Set(data.series.map((s) => s.source))].join('; ');
   }
-  const id = await db.transaction(async (trx) => {
+  const id = await transaction(db, async (trx) => {
     const [newId] = await trx('exhibits').insert({
       author_id: user.id,
       study_id: body.studyId ?? null,
@@ -45,7 +46,7 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
 
 export async function updateExhibit(deps: ExhibitDeps, user: PublicUser, id: number, body: UpdateExhibitBody) {
   const { db } = deps;
-  await db.transaction(async (trx) => {
+  await transaction(db, async (trx) => {
     const row = await exhibitRow(trx, id, true);
     if (!canSee(user, row)) throw notFound('The exhibit');
     if (row.status !== 'draft' && row.status !== 'returned') {

@@ -8,6 +8,7 @@ import { notify } from './mail.js';
 import { MOVES, STATE_WORDS } from './moves.js';
 import { canSee, exhibitRow, getExhibit, summary, type ExhibitDeps } from './read.js';
 import { buildSnapshot, snapshotChecksum } from './snapshots.js';
+import { transaction } from '../../lib/retry.js';
 
 export async function transition(deps: ExhibitDeps, user: PublicUser, id: number, to: ExhibitState, comment: string | undefined, ip?: string) {
   const { db } = deps;
@@ -17,7 +18,7 @@ export async function transition(deps: ExhibitDeps, user: PublicUser, id: number
   const needs: Role = move.by === 'author' ? 'economist' : 'editor';
   if (!user.roles.includes(needs)) throw forbidden('role_required', `This needs the ${needs} role.`, { roles: [needs] });
   if (!canSee(user, first)) throw forbidden('not_allowed', move.by === 'author' ? 'Only the author submits this exhibit.' : 'This exhibit is not in review.');
-  const row = await db.transaction(async (trx) => {
+  const row = await transaction(db, async (trx) => {
     const cur = await exhibitRow(trx, id, true);
     if (!move.from.includes(cur.status)) {
       throw conflict('move_not_allowed', `The exhibit is ${STATE_WORDS[cur.status as ExhibitState]}; it can be ${move.verb} only when it is ${move.from.map((f) => STATE_WORDS[f]).join(' or ')}.`);

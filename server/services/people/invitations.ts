@@ -10,6 +10,7 @@ import type { Invitation, PublicUser, Role } from '../../schemas/people.js';
 import { audit } from '../audit.js';
 import { startSession } from '../auth.js';
 import { loadUser, publicUser, type PeopleDeps } from './users.js';
+import { transaction } from '../../lib/retry.js';
 
 const INVITATION_DAYS = 7;
 
@@ -35,7 +36,7 @@ export async function invite(deps: PeopleDeps, actor: PublicUser, input: { email
   if (existing) throw conflict('already_member', `${input.email} already has an account${existing.status === 'deactivated' ? ' (deactivated: reactivate it on the People page)' : ''}.`);
   const token = randomToken(32);
   const roles = [...new Set(input.roles)].sort();
-  const id = await db.transaction(async (trx) => {
+  const id = await transaction(db, async (trx) => {
     // A new invitation replaces any pending one for the same address.
     await trx('invitations').where('email', input.email).whereNull('accepted_at').whereNull('revoked_at').update({ revoked_at: new Date() });
     const [newId] = await trx('invitations').insert({
@@ -105,7 +106,7 @@ export async function lookupInvitation(db: Db, token: string) {
 export async function acceptInvitation(deps: PeopleDeps, input: { token: string; name: string; password: string }, ip: string, userAgent?: string) {
   const { db } = deps;
   const passwordHash = await hashPassword(input.password);
-  const userId = await db.transaction(async (trx) => {
+  const userId = await transaction(db, async (trx) => {
     const inv = await usableInvitation(trx, input.token, true);
     const taken = await trx('users').where('email', inv.email).first();
     if (taken) throw conflict('already_member', `${inv.email} already has an account; sign in instead.`);

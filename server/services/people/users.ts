@@ -7,6 +7,7 @@ import type { Mailer } from '../../mail/mailer.js';
 import { parseRoles, type AppLucia } from '../../auth/lucia.js';
 import { ROLES, type Person, type PublicUser, type Role } from '../../schemas/people.js';
 import { audit } from '../audit.js';
+import { transaction } from '../../lib/retry.js';
 
 /** What the people services need besides the database: mail links, mail, and sessions to end. */
 export interface PeopleDeps {
@@ -47,7 +48,7 @@ export async function listUsers(db: Db): Promise<Person[]> {
 
 export async function updateUser(deps: PeopleDeps, actor: PublicUser, id: number, change: { roles?: Role[]; status?: 'active' | 'deactivated'; name?: string }, ip?: string) {
   const { db, lucia } = deps;
-  await db.transaction(async (trx) => {
+  await transaction(db, async (trx) => {
     const user = await trx('users').where('id', id).forUpdate().first();
     if (!user) throw notFound('The person');
     const current = parseRoles((await trx('user_roles').where('user_id', id).select(trx.raw('GROUP_CONCAT(role) AS roles')))[0]?.roles ?? null);

@@ -9,12 +9,15 @@ import type { LoadFields, LoadSummary, StoredLoadVintage } from '../../../schema
 import { audit } from '../../audit.js';
 import { iso } from '../rows.js';
 import { allProblems, type CheckedLoad } from './preview.js';
+import { transaction } from '../../../lib/retry.js';
 
 const INSERT_ROWS = 10_000;
 
 /**
  * Stores a checked load. Series rows are locked in id order, so concurrent loads of the same
- * series queue up and take the numbers n and n+1, never the same one. A load with errors, a load
+ * series queue up and take the numbers n and n+1, never the same one. On a Galera cluster the
+ * lock holds on one node only: a load on another node collides at commit on the unique
+ * (series_id, number) and the whole transaction runs again (lib/retry.ts). A load with errors, a load
  * that changes nothing and a file that differs from the one previewed are refused.
  */
 export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, fields: LoadFields, ip?: string, onProgress?: Progress): Promise<{ loadId: number; vintages: StoredLoadVintage[] }> {
@@ -33,7 +36,8 @@ export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, f
   }
   const total = candidates.reduce((n, c) => n + c.rowCount, 0);
   let written = 0;
-  return db.transaction(async (trx) => {
+  return transaction(db, async (trx) => {
+    written = 0; // a retried attempt reports its progress from the start
     const ids = candidates.map((c) => c.series!.id).sort((a, b) => a - b);
     for (let i = 0; i < ids.length; i += 1000) await trx('series').whereIn('id', ids.slice(i, i + 1000)).forUpdate().select('id');
     const latestNumber = new Map<number, { n: number; checksum: string }>();
