@@ -11,6 +11,7 @@ import { pinoHttp } from 'pino-http';
 import type { AppDeps, AppOptions } from './deps.js';
 import { errorHandler } from './lib/error-answer.js';
 import { HttpError } from './lib/errors.js';
+import { duringShutdown } from './lib/drain.js';
 import { mount, type RegisteredRoute, type RouteSpec } from './lib/http.js';
 import type { Logger } from './lib/logger.js';
 import { createLucia } from './auth/lucia.js';
@@ -83,7 +84,8 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
           req: (req) => ({ id: req.id, method: req.method, url: req.url }),
           res: (res) => ({ statusCode: res.statusCode }),
         },
-        customLogLevel: (_req, res, err) => (err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
+        // A 503 while the server drains is expected, not a failure.
+        customLogLevel: (req, res, err) => ((err || res.statusCode >= 500) && !(res.statusCode === 503 && duringShutdown(req)) ? 'error' : res.statusCode >= 400 ? 'warn' : 'info'),
       }),
     );
   } else {

@@ -41,6 +41,8 @@ const schema = z.object({
   SEED_DEMO: bool.default(true),
   /** Values of immutable vintages kept in memory for repeated decompositions. */
   OBSERVATION_CACHE_VALUES: z.coerce.number().int().min(0).max(500_000_000).default(2_000_000),
+  /** On SIGTERM/SIGINT, how long requests in flight may run before their connections are closed. */
+  SHUTDOWN_GRACE_SECONDS: z.coerce.number().min(0).max(3600).default(30),
 });
 
 export type Config = {
@@ -62,6 +64,7 @@ export type Config = {
   staticDir?: string;
   seedDemo: boolean;
   observationCacheValues: number;
+  shutdownGraceMs: number;
 };
 
 export class ConfigError extends Error {}
@@ -104,5 +107,6 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     staticDir: e.STATIC_DIR,
     seedDemo: e.SEED_DEMO,
     observationCacheValues: e.OBSERVATION_CACHE_VALUES,
+    shutdownGraceMs: Math.round(e.SHUTDOWN_GRACE_SECONDS * 1000),
   };
 }

@@ -1,11 +1,13 @@
-/** The listener: configuration, database, mail, then the app on HOST:PORT. */
+/** The listener: configuration, database, mail, then the app on HOST:PORT; a graceful drain on SIGTERM/SIGINT. */
+import { createServer } from 'node:http';
 import { createApp } from './app.js';
-import { ConfigError, loadConfig } from './config.js';
+import { ConfigError, loadConfig, type Config } from './config.js';
 import { createDb } from './db.js';
+import { createDrain } from './lib/drain.js';
 import { createLogger } from './lib/logger.js';
 import { startFakeMailServer, type FakeMailServer } from './mail/fake-smtp.js';
 
-let config;
+let config: Config;
 try {
   config = loadConfig();
 } catch (error) {
@@ -30,7 +32,8 @@ if (config.mail.mode === 'fake') {
 }
 const app = createApp({ config, db, logger, mailbox });
 
-const server = app.listen(config.port, config.host, () => {
+const drain = createDrain();
+const server = createServer(drain.listener(app)).listen(config.port, config.host, () => {
   logger.info(`Tidegauge is serving on http://${config.host}:${config.port}`);
   if (process.stdout.isTTY) console.log(`\n  Tidegauge is ready: ${config.publicOrigin}\n`);
 });
@@ -40,15 +43,15 @@ let closing = false;
 async function close(signal: string) {
   if (closing) return;
   closing = true;
-  logger.info(`${signal}: closing`);
-  // Stop taking connections, let the requests in flight finish (at most 5 s), then close the pool.
-  const drained = new Promise<void>((resolve) => server.close(() => resolve()));
-  server.closeIdleConnections?.();
-  setTimeout(() => process.exit(0), 8000).unref();
-  await Promise.race([drained, new Promise((r) => setTimeout(r, 5000))]);
-  server.closeAllConnections?.();
-  await Promise.allSettled([app.locals.shutdown(), db.destroy(), mailbox?.close()]);
-  process.exit(0);
+  logger.info(`${signal}: closing; new connections are refused, requests in flight are answered`);
+  // See server/lib/drain.ts: stop accepting, answer what is in flight, then close the pool.
+  const { unfinished, ms } = await drain.shutdown(server, {
+    graceMs: config.shutdownGraceMs,
+    logger,
+    close: () => Promise.allSettled([app.locals.shutdown(), db.destroy(), mailbox?.close()]),
+  });
+  logger.info(`closed after ${ms} ms`);
+  process.exit(unfinished ? 1 : 0);
 }
 process.on('SIGINT', () => void close('SIGINT'));
 process.on('SIGTERM', () => void close('SIGTERM'));

@@ -12,6 +12,7 @@ import type { Config } from '../config.js';
 import { isDbUnavailable } from '../db.js';
 import { HttpError } from './errors.js';
 import { conflictExhausted, isDeadlock } from './retry.js';
+import { duringShutdown, SHUTTING_DOWN_MESSAGE } from './drain.js';
 import type { Logger } from './logger.js';
 
 export interface ErrorAnswer {
@@ -58,7 +59,12 @@ export function errorAnswer(err: unknown, limits?: Limits): ErrorAnswer {
 export function errorHandler(logger: Logger, limits: Limits): ErrorRequestHandler {
   return (err, req, res, _next) => {
     const { status, body, headers } = errorAnswer(err, limits);
-    if (status >= 500) (req.log ?? logger).error({ err }, 'request failed');
+    const closing = duringShutdown(req);
+    if (closing && body.error.code === 'database_unavailable') {
+      // Waited for a database connection past the pool's timeout while the server drains.
+      body.error = { code: 'shutting_down', message: SHUTTING_DOWN_MESSAGE };
+    }
+    if (status >= 500) (req.log ?? logger)[closing && status === 503 ? 'warn' : 'error']({ err }, 'request failed');
     if (res.headersSent) {
       res.destroy();
       return;

@@ -5,7 +5,6 @@
  */
 import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import path from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -14,19 +13,13 @@ import { createDb, migrateLatest, type Db } from '../../server/db.js';
 import { createLogger } from '../../server/lib/logger.js';
 import { seedDemo } from '../../seeds/demo.js';
 import { listen, makeTestApp, testConfig } from '../helpers/app.js';
+import { bigSdmxLoad, insertMonthlySeries } from '../helpers/loads.js';
+import { freePort, waitFor } from '../helpers/ports.js';
 import { ORIGIN, sessionCookie } from '../helpers/session.js';
 // @ts-expect-error plain JS module without types
 import * as setupLib from '../../scripts/lib/setup.mjs';
 
 const root = path.resolve(import.meta.dirname, '..', '..');
-
-const freePort = () =>
-  new Promise<number>((resolve) => {
-    const s = net.createServer().listen(0, '127.0.0.1', () => {
-      const p = (s.address() as net.AddressInfo).port;
-      s.close(() => resolve(p));
-    });
-  });
 
 let dataDir: string;
 let port: number;
@@ -49,8 +42,7 @@ beforeAll(async () => {
   await migrateLatest(db);
   await seedDemo(db, { onlyIfEmpty: false });
   // 300 monthly series for a load large enough to be interrupted while it writes.
-  const rows = Array.from({ length: 300 }, (_, i) => ({ code: `F_${String(i).padStart(3, '0')}`, title: `Fault series ${i}`, frequency: 'M', unit: 'index', seasonal_adjustment: 'sa', source: 'test' }));
-  await db('series').insert(rows);
+  await insertMonthlySeries(db, 'F', 300);
 }, 180_000);
 
 afterAll(async () => {
@@ -59,13 +51,7 @@ afterAll(async () => {
   fs.rmSync(dataDir, { recursive: true, force: true });
 });
 
-function bigLoad(months = 500, shift = 0) {
-  let text = 'STRUCTURE,STRUCTURE_ID,ACTION,FREQ,SERIES_CODE,TIME_PERIOD,OBS_VALUE\n';
-  for (let s = 0; s < 300; s++) {
-    for (let m = 0; m < months; m++) text += `df,F:DF(1.0),I,M,F_${String(s).padStart(3, '0')},${1980 + Math.floor(m / 12)}-${String((m % 12) + 1).padStart(2, '0')},${(100 + s + m / 10 + shift).toFixed(2)}\n`;
-  }
-  return Buffer.from(text);
-}
+const bigLoad = (months = 500, shift = 0) => bigSdmxLoad({ prefix: 'F', count: 300, months, shift });
 
 /** Every vintage has exactly its row_count observations: no partial vintage anywhere. */
 async function assertNoPartialVintage(d: Db) {
@@ -79,15 +65,6 @@ async function assertNoPartialVintage(d: Db) {
 }
 
 const faultVintages = async (d: Db) => Number((await d('vintages as v').join('series as s', 's.id', 'v.series_id').where('s.code', 'like', 'F\\_%').count({ n: '*' }))[0].n);
-
-async function waitFor(check: () => Promise<boolean>, ms: number) {
-  const until = Date.now() + ms;
-  while (Date.now() < until) {
-    if (await check().catch(() => false)) return true;
-    await new Promise((r) => setTimeout(r, 250));
-  }
-  return false;
-}
 
 describe('the database goes away during requests and a load', () => {
   it('answers 503 in the error shape, stores no partial vintage, and recovers by itself', async () => {
