@@ -38,6 +38,19 @@ export default defineConfig({
           sequence: { groupOrder: 1 },
         },
       },
+      {
+        // A Galera cluster of its own (three MariaDB nodes, HAProxy, two server processes): run
+        // after everything else, alone on the machine (npm run test:cluster runs only these).
+        extends: true,
+        test: {
+          name: 'cluster',
+          include: ['tests/cluster/**/*.test.ts'],
+          fileParallelism: false,
+          testTimeout: 300_000,
+          hookTimeout: 400_000,
+          sequence: { groupOrder: 2 },
+        },
+      },
     ],
   },
 });

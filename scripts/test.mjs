@@ -1,11 +1,13 @@
 // `npm test`: the same set-up as `npm start` (packages, MariaDB, Chromium, client build), then
-// every test: unit, API (against the real MariaDB) and browser (Debian's Chromium).
+// every test: unit, API (against the real MariaDB), browser (Debian's Chromium) and, last, the
+// Galera cluster (Debian's galera-4 and HAProxy).
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 import {
   dbDefaults,
   ensureChromium,
   ensureClientBuild,
+  ensureClusterPackages,
   ensureMariadbInstalled,
   ensureNodeModules,
   log,
@@ -16,6 +18,7 @@ import {
 ensureNodeModules();
 const bins = ensureMariadbInstalled();
 const chromium = ensureChromium();
+ensureClusterPackages();
 // The tests make their own databases (tidegauge_test_…) on this server; the demo database is
 // never touched.
 const db = await provideDatabase('tidegauge_test');

@@ -96,6 +96,41 @@ export function ensureMariadbInstalled() {
   };
 }
 
+/** Where Debian (and other distributions) put the Galera 4 replication library. */
+const GALERA_PROVIDERS = ['/usr/lib/galera/libgalera_smm.so', '/usr/lib/galera-4/libgalera_smm.so', '/usr/lib64/galera-4/libgalera_smm.so', '/usr/lib64/galera/libgalera_smm.so'];
+
+/** The programs the Galera cluster uses, or null for each one that is missing (installs nothing). */
+export function findClusterPrograms() {
+  return {
+    mariadbd: which('mariadbd'),
+    installDb: which('mariadb-install-db'),
+    admin: which('mariadb-admin'),
+    client: which('mariadb'),
+    provider: GALERA_PROVIDERS.find((p) => fs.existsSync(p)) ?? null,
+    haproxy: which('haproxy'),
+    rsync: which('rsync'),
+  };
+}
+
+/**
+ * What `npm run cluster` and the cluster tests need: MariaDB with Galera 4 (Debian's `galera-4`
+ * comes with `mariadb-server`), rsync for the state transfer to a joining node, and HAProxy.
+ * Installs what is missing when it can (root with apt), else says what to install and stops.
+ */
+export function ensureClusterPackages() {
+  ensureMariadbInstalled();
+  let found = findClusterPrograms();
+  const missing = [];
+  if (!found.provider) missing.push('galera-4');
+  if (!found.rsync) missing.push('rsync');
+  if (!found.haproxy) missing.push('haproxy');
+  if (missing.length) aptInstall(missing, `The Galera cluster needs ${missing.join(', ')}, which ${missing.length === 1 ? 'is' : 'are'} not installed.`);
+  found = findClusterPrograms();
+  const still = Object.entries(found).filter(([, v]) => !v).map(([k]) => k);
+  if (still.length) fail(`Still missing after installing: ${still.join(', ')} (the Galera library was looked for in ${GALERA_PROVIDERS.join(', ')}).`);
+  return found;
+}
+
 export function ensureChromium() {
   const chromium = process.env.CHROMIUM_PATH || '/usr/bin/chromium';
   if (!fs.existsSync(chromium)) {

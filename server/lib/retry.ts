@@ -58,7 +58,7 @@ export function conflictExhausted(attempts: number): HttpError {
   return new HttpError(
     503,
     'write_conflict',
-    `This change collided with other changes to the same data ${attempts} times in a row and was not stored. Try again in a moment.`,
+    `This change collided with other changes to the same data (${attempts} attempt${attempts === 1 ? '' : 's'}) and was not stored. Try again in a moment.`,
     undefined,
     { 'Retry-After': '1' },
   );
