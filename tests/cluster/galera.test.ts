@@ -187,6 +187,33 @@ describe('concurrent loads of one series through both instances', () => {
   }, 120_000);
 });
 
+describe('rules that span rows, across nodes', () => {
+  it('two administrators removing each other at the same moment through different nodes leave one administrator', async () => {
+    // A row lock holds on one node only, and the two changes write different rows: the last-admin
+    // rule must still hold (write skew), in every round.
+    const users = async () => (await c.nodeDb(0)('users').whereIn('email', ['admin@demo.test', 'editor@demo.test']).select('id', 'email')).reduce((m, u) => ({ ...m, [u.email]: u.id as number }), {} as Record<string, number>);
+    const ids = await users();
+    const first = await signIn(app1, 'admin@demo.test');
+    const second = await signIn(app2, 'editor@demo.test');
+    const patch = (app: Instance, who: string, id: number, roles: string[]) =>
+      fetch(`${app.base}/api/v1/users/${id}`, { method: 'PATCH', headers: { Cookie: who, Origin: app.base, 'Content-Type': 'application/json' }, body: JSON.stringify({ roles }) });
+    const admins = async () => Number((await c.nodeDb(0)('user_roles as r').join('users as u', 'u.id', 'r.user_id').where({ 'r.role': 'admin', 'u.status': 'active' }).count({ n: '*' }))[0].n);
+    for (let round = 0; round < 6; round++) {
+      // Both are administrators again: whoever is one makes the other one too.
+      const holder = (await c.nodeDb(0)('user_roles').where({ user_id: ids['admin@demo.test'], role: 'admin' }).first()) ? { app: app1, who: first } : { app: app2, who: second };
+      expect((await patch(holder.app, holder.who, ids['admin@demo.test'], ['admin'])).status).toBe(200);
+      expect((await patch(holder.app, holder.who, ids['editor@demo.test'], ['editor', 'admin'])).status).toBe(200);
+      expect(await admins()).toBe(2);
+      const [a, b] = await Promise.all([patch(app1, first, ids['editor@demo.test'], ['editor']), patch(app2, second, ids['admin@demo.test'], ['viewer'])]);
+      const codes = [a.status, b.status].sort();
+      expect(await admins(), `round ${round}: answers ${codes}`).toBe(1);
+      expect(codes).toEqual([200, 409]);
+      const refused = a.status === 409 ? a : b;
+      expect(((await refused.json()) as any).error.code).toBe('last_admin');
+    }
+  }, 120_000);
+});
+
 describe('a node killed with SIGKILL in the middle of a large load', () => {
   it('the load is stored whole or answered 503, no acknowledged load is lost, the instances keep answering, and after the rejoin every node holds the same checksum for every vintage', async () => {
     await insertMonthlySeries(c.nodeDb(1), 'K', 300);

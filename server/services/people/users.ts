@@ -56,7 +56,11 @@ export async function updateUser(deps: PeopleDeps, actor: PublicUser, id: number
     const nextStatus = change.status ?? user.status;
     const losesAdmin = current.includes('admin') && user.status === 'active' && (!nextRoles.includes('admin') || nextStatus !== 'active');
     if (losesAdmin) {
-      // Lock the admin rows so two admins cannot demote each other at the same moment.
+      // Lock the admin rows so two admins cannot demote each other at the same moment. On a Galera
+      // cluster a lock holds on one node only and two such changes write different rows, so both
+      // would pass; both also write this one row, which makes the cluster see them collide and
+      // run the second again (lib/retry.ts), when it finds the last administrator.
+      await trx.raw("INSERT INTO settings (`key`, value) VALUES ('admin_roles_guard', '1') ON DUPLICATE KEY UPDATE value = value + 1, updated_at = NOW(3)");
       const admins = await trx('user_roles as r').join('users as u', 'u.id', 'r.user_id').where('r.role', 'admin').andWhere('u.status', 'active').forUpdate().select('u.id');
       if (admins.length <= 1) throw conflict('last_admin', 'This is the last active administrator; make someone else an administrator first.');
     }
