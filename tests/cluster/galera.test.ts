@@ -198,6 +198,7 @@ describe('rules that span rows, across nodes', () => {
     const patch = (app: Instance, who: string, id: number, roles: string[]) =>
       fetch(`${app.base}/api/v1/users/${id}`, { method: 'PATCH', headers: { Cookie: who, Origin: app.base, 'Content-Type': 'application/json' }, body: JSON.stringify({ roles }) });
     const admins = async () => Number((await c.nodeDb(0)('user_roles as r').join('users as u', 'u.id', 'r.user_id').where({ 'r.role': 'admin', 'u.status': 'active' }).count({ n: '*' }))[0].n);
+    let raced = 0;
     for (let round = 0; round < 6; round++) {
       // Both are administrators again: whoever is one makes the other one too.
       const holder = (await c.nodeDb(0)('user_roles').where({ user_id: ids['admin@demo.test'], role: 'admin' }).first()) ? { app: app1, who: first } : { app: app2, who: second };
@@ -207,10 +208,17 @@ describe('rules that span rows, across nodes', () => {
       const [a, b] = await Promise.all([patch(app1, first, ids['editor@demo.test'], ['editor']), patch(app2, second, ids['admin@demo.test'], ['viewer'])]);
       const codes = [a.status, b.status].sort();
       expect(await admins(), `round ${round}: answers ${codes}`).toBe(1);
-      expect(codes).toEqual([200, 409]);
-      const refused = a.status === 409 ? a : b;
-      expect(((await refused.json()) as any).error.code).toBe('last_admin');
+      // One change went through. The other is refused: 409 last_admin when the two ran at the
+      // same moment, or 403 when it arrived after its sender had already lost the admin role.
+      expect(codes[0]).toBe(200);
+      const refused = a.status === 200 ? b : a;
+      const code = ((await refused.json()) as any).error.code;
+      expect([`${refused.status} ${code}`]).toEqual([refused.status === 409 ? '409 last_admin' : '403 role_required']);
+      raced += refused.status === 409 ? 1 : 0;
     }
+    // The two did overlap in most rounds (else this would not test the rule across nodes).
+    console.log(`administrator removals that ran at the same moment: ${raced} of 6`);
+    expect(raced).toBeGreaterThanOrEqual(2);
   }, 120_000);
 });
 
