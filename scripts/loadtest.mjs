@@ -2,12 +2,11 @@
 // with autocannon on loopback, bounded in time. Prints requests per second, p50/p99 latency and
 // errors per scenario and connection count, with /api/v1/health as the reference, and checks the
 // targets of the reliability issue. Results are also written to .data/loadtest-results.json.
-import { spawn } from 'node:child_process';
 import fs from 'node:fs';
-import net from 'node:net';
 import os from 'node:os';
 import path from 'node:path';
-import { ensureNodeModules, log, provideDatabase, root, runTs, tsxArgs } from './lib/setup.mjs';
+import { ensureNodeModules, log, provideDatabase, root, runTs } from './lib/setup.mjs';
+import { startServerUnderLoad } from './loadtest/server.mjs';
 
 ensureNodeModules();
 const { default: autocannon } = await import('autocannon');
@@ -17,37 +16,7 @@ log('seeding 10 000 series × 200 quarters…');
 runTs('scripts/loadtest/seed.ts', [stateFile], { DATABASE_URL: db.url });
 const { token, ids } = JSON.parse(fs.readFileSync(stateFile, 'utf8'));
 
-const port = await new Promise((resolve) => {
-  const s = net.createServer().listen(0, '127.0.0.1', () => {
-    const p = s.address().port;
-    s.close(() => resolve(p));
-  });
-});
-const base = `http://127.0.0.1:${port}`;
-const server = spawn(process.execPath, tsxArgs('server/main.ts'), {
-  cwd: root,
-  stdio: ['ignore', 'inherit', 'inherit'],
-  env: { ...process.env, DATABASE_URL: db.url, PORT: String(port), NODE_ENV: 'production', MAIL_MODE: 'off', LOG_LEVEL: 'warn', DB_POOL_MAX: '40' },
-});
-const stop = async () => {
-  if (server.exitCode === null) {
-    server.kill('SIGTERM');
-    await new Promise((r) => server.once('exit', r));
-  }
-  if (db.owned) await db.stop();
-};
-process.on('SIGINT', async () => {
-  await stop();
-  process.exit(130);
-});
-for (let i = 0; i < 100; i++) {
-  try {
-    if ((await fetch(`${base}/api/v1/health`)).ok) break;
-  } catch {
-    /* not yet */
-  }
-  await new Promise((r) => setTimeout(r, 200));
-}
+const { base, stop } = await startServerUnderLoad(db);
 
 const headers = { Authorization: `Bearer ${token}`, 'Content-Type': 'application/json' };
 const pick = () => ids[Math.floor(Math.random() * ids.length)];

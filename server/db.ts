@@ -103,6 +103,12 @@ export function isDbUnavailable(error: unknown): boolean {
   );
 }
 
+/** Connections of the pool in use, being opened, or waited for: 0 when no work needs the database. */
+export function poolInUse(db: Db): number {
+  const pool = (db.client as { pool?: { numUsed(): number; numPendingAcquires(): number; numPendingCreates(): number } }).pool;
+  return pool ? pool.numUsed() + pool.numPendingAcquires() + pool.numPendingCreates() : 0;
+}
+
 /**
  * A raw query straight on a pooled mysql2 connection, skipping Knex's query builder and runner.
  * For the few queries that run on every request (token and session lookups, observations);

@@ -2,10 +2,11 @@
 import { createServer } from 'node:http';
 import { createApp } from './app.js';
 import { ConfigError, loadConfig, type Config } from './config.js';
-import { createDb } from './db.js';
+import { createDb, poolInUse } from './db.js';
 import { createDrain } from './lib/drain.js';
 import { createLogger } from './lib/logger.js';
 import { startFakeMailServer, type FakeMailServer } from './mail/fake-smtp.js';
+import { createAnalysisPool } from './workers/pool.js';
 
 let config: Config;
 try {
@@ -30,7 +31,8 @@ if (config.mail.mode === 'fake') {
     logger.warn({ err: error }, `the fake mail server could not listen on port ${config.mail.fakePort}; set FAKE_SMTP_PORT`);
   }
 }
-const app = createApp({ config, db, logger, mailbox });
+const pool = createAnalysisPool(config.workerThreads);
+const app = createApp({ config, db, logger, mailbox, pool });
 
 const drain = createDrain();
 const server = createServer(drain.listener(app)).listen(config.port, config.host, () => {
@@ -48,6 +50,8 @@ async function close(signal: string) {
   const { unfinished, ms } = await drain.shutdown(server, {
     graceMs: config.shutdownGraceMs,
     logger,
+    // Work whose client went away still holds or waits for connections, or runs on a worker thread.
+    busy: () => poolInUse(db) > 0 || pool.active > 0,
     close: () => Promise.allSettled([app.locals.shutdown(), db.destroy(), mailbox?.close()]),
   });
   logger.info(`closed after ${ms} ms`);

@@ -4,27 +4,13 @@
  * given as the first argument.
  */
 import fs from 'node:fs';
-import { createDb, migrateLatest } from '../../server/db.js';
-import { hashPassword } from '../../server/auth/password.js';
-import { createToken } from '../../server/services/people/tokens.js';
 import { checksumOf } from '../../server/services/catalogue/vintages.js';
 import { formatPeriod, periodIndex } from '../../server/analysis/periods.js';
+import { freshLoadTestDb } from './fresh-db.js';
 
 const SERIES = 10_000;
 const POINTS = 200;
-const url = new URL(process.env.DATABASE_URL!);
-const name = url.pathname.slice(1);
-const server = new URL(url.toString());
-server.pathname = '/';
-const admin = createDb(server.toString(), 2);
-await admin.raw('DROP DATABASE IF EXISTS ??', [name]);
-await admin.raw('CREATE DATABASE ?? CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci', [name]);
-await admin.destroy();
-const db = createDb(url.toString(), 4);
-await migrateLatest(db);
-const [uid] = await db('users').insert({ email: 'load@demo.test', name: 'Load Test', password_hash: await hashPassword('load-test-password') });
-await db('user_roles').insert([{ user_id: uid, role: 'economist' }, { user_id: uid, role: 'steward' }]);
-const token = (await createToken(db, uid, 'loadtest')).token;
+const { db, uid, token } = await freshLoadTestDb({ email: 'load@demo.test', name: 'Load Test' });
 
 const start = periodIndex('1975-Q1', 'Q')!;
 const periods = Array.from({ length: POINTS }, (_, i) => formatPeriod(start + i, 'Q'));

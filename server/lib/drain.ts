@@ -8,7 +8,8 @@
  *    others finish, or a 503 `shutting_down` in the error shape when the pool's acquire timeout
  *    passes. A request arriving on a connection that is still open is refused with that 503.
  * 3. When nothing is in flight, `close` runs (worker threads, database pool, mail): the pool is
- *    closed only once no request waits for it, so no request is aborted half-way.
+ *    closed only once no request holds or waits for a connection, including requests whose
+ *    client has gone away (a load generator that stopped), so nothing is aborted half-way.
  * 4. If requests are still running after the grace period (a very large load, say), the server
  *    logs how many and closes their connections; the database rolls their transactions back,
  *    so a load is then stored whole or not at all.
@@ -16,11 +17,13 @@
 import type { IncomingMessage, RequestListener, Server, ServerResponse } from 'node:http';
 import type { Logger } from './logger.js';
 
-const SHUTTING_DOWN = Symbol('tidegauge.shuttingDown');
+/** Servers that are draining. */
+const draining = new WeakSet<object>();
 
-/** True for a request that was in flight, or arrived, after the drain began. */
+/** True for a request on a server that is draining (it arrived before or during the drain). */
 export function duringShutdown(req: IncomingMessage): boolean {
-  return (req as unknown as Record<symbol, unknown>)[SHUTTING_DOWN] === true;
+  const server = (req.socket as { server?: object } | undefined)?.server;
+  return !!server && draining.has(server);
 }
 
 export const SHUTTING_DOWN_MESSAGE = 'This server is shutting down and could not finish the request; nothing was changed. Send it again: another instance will answer.';
@@ -37,7 +40,7 @@ function refuse(res: ServerResponse) {
 }
 
 export interface DrainResult {
-  /** Requests still running when the grace period ended (their connections were closed). */
+  /** Requests still running when the grace period ended (their connections were closed), plus 1 if other work was. */
   unfinished: number;
   /** Milliseconds from the start of the drain to the end. */
   ms: number;
@@ -46,53 +49,44 @@ export interface DrainResult {
 export interface Drain {
   /** Wraps the app: counts the requests in flight and refuses new ones once draining. */
   listener(app: RequestListener): RequestListener;
-  /** Runs the drain described above; resolves when the server is closed. */
-  shutdown(server: Server, options: { graceMs: number; close: () => Promise<unknown>; logger: Logger }): Promise<DrainResult>;
+  /**
+   * Runs the drain described above; resolves when the server is closed. `busy` tells whether
+   * work continues without a client to answer (a request whose client went away still holds or
+   * waits for a database connection, a batch still runs on a worker thread): `close` waits for it.
+   */
+  shutdown(server: Server, options: { graceMs: number; close: () => Promise<unknown>; busy?: () => boolean; logger: Logger }): Promise<DrainResult>;
   readonly inFlight: number;
 }
 
 export function createDrain(): Drain {
-  const inflight = new Map<ServerResponse, IncomingMessage>();
-  let draining = false;
-  let onIdle: (() => void) | null = null;
+  const inflight = new Set<ServerResponse>();
+  let closing = false;
 
   return {
     get inFlight() {
       return inflight.size;
     },
     listener: (app) => (req, res) => {
-      if (draining) {
-        (req as unknown as Record<symbol, unknown>)[SHUTTING_DOWN] = true;
+      if (closing) {
         refuse(res);
         return;
       }
-      inflight.set(res, req);
-      res.once('close', () => {
-        inflight.delete(res);
-        if (inflight.size === 0) onIdle?.();
-      });
+      inflight.add(res);
+      res.once('close', () => inflight.delete(res));
       app(req, res);
     },
-    async shutdown(server, { graceMs, close, logger }) {
+    async shutdown(server, { graceMs, close, busy = () => false, logger }) {
       const started = Date.now();
-      draining = true;
-      for (const [res, req] of inflight) {
-        (req as unknown as Record<symbol, unknown>)[SHUTTING_DOWN] = true;
-        if (!res.headersSent) res.setHeader('Connection', 'close');
-      }
+      closing = true;
+      draining.add(server);
+      for (const res of inflight) if (!res.headersSent) res.setHeader('Connection', 'close');
       server.close();
       server.closeIdleConnections();
       if (inflight.size) logger.info(`waiting for ${inflight.size} request${inflight.size === 1 ? '' : 's'} in flight (at most ${Math.round(graceMs / 1000)} s)`);
-      const idle = new Promise<boolean>((resolve) => {
-        if (inflight.size === 0) resolve(true);
-        else onIdle = () => resolve(true);
-      });
-      let timer: NodeJS.Timeout | undefined;
-      const inTime = await Promise.race([idle, new Promise<boolean>((resolve) => (timer = setTimeout(() => resolve(false), graceMs)))]);
-      clearTimeout(timer);
-      const unfinished = inflight.size;
-      if (inTime) await close();
-      else logger.warn(`${unfinished} request${unfinished === 1 ? ' was' : 's were'} still running after the ${Math.round(graceMs / 1000)} s grace period; closing their connections (the database rolls back what they had not committed)`);
+      while ((inflight.size > 0 || busy()) && Date.now() - started < graceMs) await new Promise((r) => setTimeout(r, 25));
+      const unfinished = inflight.size + (busy() ? 1 : 0);
+      if (unfinished === 0) await close();
+      else logger.warn(`work was still running after the ${Math.round(graceMs / 1000)} s grace period (${inflight.size} request${inflight.size === 1 ? '' : 's'} in flight); closing the connections (the database rolls back what was not committed)`);
       server.closeAllConnections();
       return { unfinished, ms: Date.now() - started };
     },

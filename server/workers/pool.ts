@@ -11,6 +11,8 @@ export interface AnalysisPool {
   run(task: BatchTask | StoredTask): Promise<string[]>;
   close(): Promise<void>;
   threads: number;
+  /** Tasks queued or running (the shutdown waits for them). */
+  readonly active: number;
 }
 
 export function createAnalysisPool(threads: number): AnalysisPool {
@@ -28,9 +30,16 @@ export function createAnalysisPool(threads: number): AnalysisPool {
       // thread that answers requests keeps the CPU when both want it.
       niceIncrement: 10,
     }));
+  let active = 0;
   return {
     threads: n,
-    run: (task) => get().run(task) as Promise<string[]>,
+    get active() {
+      return active;
+    },
+    run: (task) => {
+      active++;
+      return (get().run(task) as Promise<string[]>).finally(() => active--);
+    },
     close: async () => {
       if (pool) await pool.destroy();
       pool = null;

@@ -9,7 +9,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Db } from '../../server/db.js';
-import { checksumOf } from '../../server/services/catalogue.js';
+import { checksumOf } from '../../server/services/catalogue/vintages.js';
 import { CLUSTER_DB, startTestCluster, type Instance, type TestCluster } from '../helpers/cluster.js';
 import { bigSdmxLoad, insertMonthlySeries, readNdjson } from '../helpers/loads.js';
 import { waitFor } from '../helpers/ports.js';

@@ -1,0 +1,37 @@
+// The server under load, for `npm run loadtest` and scripts/loadtest/scale.mjs: server/main.ts on
+// a free loopback port against `db` (from provideDatabase), in production mode, logging failures
+// only. Resolves once it answers its health check. stop() drains it, then stops the private MariaDB.
+import { spawn } from 'node:child_process';
+import net from 'node:net';
+import { root, tsxArgs } from '../lib/setup.mjs';
+
+export async function startServerUnderLoad(db, env = {}) {
+  const port = await new Promise((resolve) => {
+    const s = net.createServer().listen(0, '127.0.0.1', () => {
+      const p = s.address().port;
+      s.close(() => resolve(p));
+    });
+  });
+  const base = `http://127.0.0.1:${port}`;
+  const server = spawn(process.execPath, tsxArgs('server/main.ts'), {
+    cwd: root,
+    stdio: ['ignore', 'inherit', 'inherit'],
+    env: { ...process.env, DATABASE_URL: db.url, PORT: String(port), NODE_ENV: 'production', MAIL_MODE: 'off', LOG_LEVEL: 'warn', DB_POOL_MAX: '40', ...env },
+  });
+  const stop = async () => {
+    if (server.exitCode === null) {
+      server.kill('SIGTERM');
+      await new Promise((r) => server.once('exit', r));
+    }
+    if (db.owned) await db.stop();
+  };
+  process.on('SIGINT', async () => {
+    await stop();
+    process.exit(130);
+  });
+  for (let i = 0; i < 150; i++) {
+    if (await fetch(`${base}/api/v1/health`).then((r) => r.ok, () => false)) break;
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  return { base, stop };
+}
