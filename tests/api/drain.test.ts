@@ -126,6 +126,19 @@ async function checkCleanExit(s: NonNullable<typeof server>) {
   expect(s.log()).not.toMatch(/"message":"aborted"/);
 }
 
+/**
+ * The test holds a series row in a transaction of its own; the server's update of that series
+ * then waits for it on the server's only connection, until `holder.commit()`.
+ */
+async function heldUpdate(s: NonNullable<typeof server>, code: string, title: string) {
+  const [series] = await t.db('series').where('code', code).select('id');
+  const holder = await t.db.transaction();
+  await holder('series').where('id', series.id).forUpdate().select('id');
+  const update = fetch(`${s.base}/api/v1/series/${series.id}`, { method: 'PATCH', headers: { Cookie: s.cookie, Origin: s.base, 'Content-Type': 'application/json' }, body: JSON.stringify({ title }) });
+  await new Promise((r) => setTimeout(r, 300));
+  return { holder, update };
+}
+
 describe('SIGTERM with requests in flight', () => {
   it('lets a large load being stored finish, answers the reads queued behind it, refuses new connections', async () => {
     const s = await startServer();
@@ -157,12 +170,7 @@ describe('SIGTERM with requests in flight', () => {
 
   it('answers 503 shutting_down to requests that wait for a database connection past the pool timeout, and still lets the write holding it finish', async () => {
     const s = await startServer();
-    const [series] = await t.db('series').where('code', 'D_001').select('id');
-    // The test holds the series row; the server's update waits for it on the only connection.
-    const holder = await t.db.transaction();
-    await holder('series').where('id', series.id).forUpdate().select('id');
-    const update = fetch(`${s.base}/api/v1/series/${series.id}`, { method: 'PATCH', headers: { Cookie: s.cookie, Origin: s.base, 'Content-Type': 'application/json' }, body: JSON.stringify({ title: 'Renamed while the server drains' }) });
-    await new Promise((r) => setTimeout(r, 300));
+    const { holder, update } = await heldUpdate(s, 'D_001', 'Renamed while the server drains');
     const clients = Array.from({ length: 4 }, () => readLoop(s.base, s.cookie));
     await new Promise((r) => setTimeout(r, 300));
     const signalAt = Date.now();
@@ -179,13 +187,10 @@ describe('SIGTERM with requests in flight', () => {
     expect(after.filter((a) => a.status === 503)).toHaveLength(4);
     await checkCleanExit(s);
   }, 120_000);
+
   it('finishes the work of requests whose clients went away (the end of a load test) before closing the pool', async () => {
     const s = await startServer();
-    const [series] = await t.db('series').where('code', 'D_002').select('id');
-    const holder = await t.db.transaction();
-    await holder('series').where('id', series.id).forUpdate().select('id');
-    const update = fetch(`${s.base}/api/v1/series/${series.id}`, { method: 'PATCH', headers: { Cookie: s.cookie, Origin: s.base, 'Content-Type': 'application/json' }, body: JSON.stringify({ title: 'Renamed at the end of a load test' }) });
-    await new Promise((r) => setTimeout(r, 300));
+    const { holder, update } = await heldUpdate(s, 'D_002', 'Renamed at the end of a load test');
     // Twenty new series queue behind the update for the only connection; then their clients hang up.
     const gone = Array.from({ length: 20 }, (_, i) => {
       const body = JSON.stringify({ code: `GONE_${i}`, title: `Sent by a client that went away ${i}`, frequency: 'Q', unit: 'index', seasonalAdjustment: 'sa' });
