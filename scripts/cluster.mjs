@@ -7,10 +7,24 @@
 import { spawn } from 'node:child_process';
 import path from 'node:path';
 import readline from 'node:readline';
-import { CHECK_USER, CLUSTER_PORTS, GaleraCluster, haproxyConfig, startHaproxy } from './lib/galera.mjs';
+import { CHECK_USER, GaleraCluster } from './lib/galera.mjs';
+import { haproxyConfig, startHaproxy } from './lib/haproxy.mjs';
 import { ensureClientBuild, ensureClusterPackages, ensureNodeModules, log, root, runTs, tsxArgs } from './lib/setup.mjs';
 
-const P = CLUSTER_PORTS;
+/** The fixed ports of `npm run cluster` (the tests take free ones). */
+const P = {
+  nodes: [
+    { port: 3441, gcomm: 4641, sst: 4644, ist: 4651 },
+    { port: 3442, gcomm: 4642, sst: 4645, ist: 4652 },
+    { port: 3443, gcomm: 4643, sst: 4646, ist: 4653 },
+  ],
+  dbFronts: [3444, 3445],
+  apps: [3031, 3032],
+  web: 3033,
+  stats: 3034,
+  fakeSmtp: 3035,
+};
+
 const DB = process.env.TIDEGAUGE_DB_NAME || 'tidegauge';
 const USER = 'tidegauge';
 const PASSWORD = process.env.TIDEGAUGE_DB_PASSWORD || 'tidegauge-local';

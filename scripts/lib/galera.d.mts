@@ -18,15 +18,6 @@ export interface GaleraNode extends NodePorts {
   child: ChildProcess | null;
 }
 
-export const CLUSTER_PORTS: {
-  nodes: NodePorts[];
-  dbFronts: number[];
-  apps: number[];
-  web: number;
-  stats: number;
-  fakeSmtp: number;
-};
-
 export const CHECK_USER: string;
 
 export function resetDir(dir: string): void;
@@ -45,22 +36,3 @@ export class GaleraCluster {
   stop(): Promise<void>;
   killAll(): void;
 }
-
-export function haproxyConfig(options: {
-  dir: string;
-  nodes: { port: number; name: string }[];
-  dbFronts: { port: number; order: number[] }[];
-  apps?: { port: number }[];
-  web?: number;
-  stats: number;
-}): string;
-
-export interface Haproxy {
-  pid: number | undefined;
-  servers(): Promise<{ proxy: string; server: string; status: string }[]>;
-  waitFor(proxy: string, server: string, status: string, timeoutMs?: number): Promise<void>;
-  stop(): Promise<void>;
-  kill(): void;
-}
-
-export function startHaproxy(options: { dir: string; config: string; stats: number }): Promise<Haproxy>;

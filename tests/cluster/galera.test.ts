@@ -8,9 +8,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import type { Db } from '../../server/db.js';
-import { checksumOf } from '../../server/services/catalogue/vintages.js';
-import { CLUSTER_DB, startTestCluster, type Instance, type TestCluster } from '../helpers/cluster.js';
+import { CLUSTER_DB, collisions, startTestCluster, vintagesOn, type Instance, type TestCluster } from '../helpers/cluster.js';
 import { bigSdmxLoad, insertMonthlySeries, readNdjson } from '../helpers/loads.js';
 import { waitFor } from '../helpers/ports.js';
 
@@ -56,38 +54,6 @@ async function createSeries(code: string) {
   });
   expect(res.status).toBe(201);
   return ((await res.json()) as { id: number }).id;
-}
-
-/** Certification failures and brute-force aborts counted by all nodes: the cluster's write collisions. */
-async function collisions() {
-  let n = 0;
-  for (let i = 0; i < 3; i++) {
-    const s = await c.galera.status(i);
-    n += Number(s.wsrep_local_cert_failures ?? 0) + Number(s.wsrep_local_bf_aborts ?? 0);
-  }
-  return n;
-}
-
-/** Every vintage a node holds: its row, and the checksum recomputed from that node's own observations. */
-async function vintagesOn(db: Db) {
-  const vintages = await db('vintages').orderBy('id').select('id', 'series_id', 'number', 'checksum', 'row_count');
-  const out = new Map<string, { checksum: string; recomputed: string; rows: number; rowCount: number }>();
-  for (let k = 0; k < vintages.length; k += 200) {
-    const chunk = vintages.slice(k, k + 200);
-    const obs = await db('observations').whereIn('vintage_id', chunk.map((v) => v.id)).orderBy(['vintage_id', 'period']).select('vintage_id', 'period', 'value');
-    const by = new Map<number, { periods: string[]; values: (number | null)[] }>();
-    for (const o of obs) {
-      const e = by.get(o.vintage_id) ?? { periods: [], values: [] };
-      e.periods.push(o.period);
-      e.values.push(o.value === null ? null : Number(o.value));
-      by.set(o.vintage_id, e);
-    }
-    for (const v of chunk) {
-      const e = by.get(v.id) ?? { periods: [], values: [] };
-      out.set(`${v.series_id}#${v.number}`, { checksum: v.checksum, recomputed: checksumOf(e.periods, e.values), rows: e.periods.length, rowCount: v.row_count });
-    }
-  }
-  return out;
 }
 
 describe('the schema and the demo seed on a Galera cluster', () => {
@@ -164,7 +130,7 @@ describe('sessions across instances on different nodes', () => {
 describe('concurrent loads of one series through both instances', () => {
   it('both land, as vintages n and n+1, with the certification conflicts retried and never answered 500', async () => {
     const id = await createSeries('CLUSTER_CONCURRENT');
-    const before = await collisions();
+    const before = await collisions(c.galera);
     const numbers: number[] = [];
     for (let round = 0; round < 8; round++) {
       const [a, b] = await Promise.all([loadRelease(app1, id, 100 + round * 2), loadRelease(app2, id, 101 + round * 2)]);
@@ -176,7 +142,7 @@ describe('concurrent loads of one series through both instances', () => {
     expect(numbers).toEqual(Array.from({ length: 16 }, (_, k) => k + 1));
     // The two writers did collide on the cluster (and the losers ran again): without the
     // retries these would have been errors.
-    const after = await collisions();
+    const after = await collisions(c.galera);
     console.log(`write collisions during 8 rounds of concurrent loads: ${after - before}`);
     expect(after - before).toBeGreaterThan(0);
     // Every node holds the 16 vintages with the same checksums.

@@ -7,8 +7,10 @@
 import { spawn, type ChildProcess } from 'node:child_process';
 import path from 'node:path';
 import { createDb, migrateLatest, type Db } from '../../server/db.js';
+import { checksumOf } from '../../server/services/catalogue/vintages.js';
 import { seedDemo } from '../../seeds/demo.js';
-import { CHECK_USER, GaleraCluster, haproxyConfig, resetDir, startHaproxy, type Haproxy } from '../../scripts/lib/galera.mjs';
+import { CHECK_USER, GaleraCluster, resetDir } from '../../scripts/lib/galera.mjs';
+import { haproxyConfig, startHaproxy, type Haproxy } from '../../scripts/lib/haproxy.mjs';
 import { freePorts, waitFor } from './ports.js';
 
 const root = path.resolve(import.meta.dirname, '..', '..');
@@ -130,4 +132,36 @@ export async function startTestCluster(): Promise<TestCluster> {
     process.removeListener('exit', killAll);
     throw error;
   }
+}
+
+/** Certification failures and brute-force aborts counted by all nodes: the cluster's write collisions. */
+export async function collisions(galera: GaleraCluster) {
+  let n = 0;
+  for (let i = 0; i < galera.nodes.length; i++) {
+    const s = await galera.status(i);
+    n += Number(s.wsrep_local_cert_failures ?? 0) + Number(s.wsrep_local_bf_aborts ?? 0);
+  }
+  return n;
+}
+
+/** Every vintage a node holds: its row, and the checksum recomputed from that node's own observations. */
+export async function vintagesOn(db: Db) {
+  const vintages = await db('vintages').orderBy('id').select('id', 'series_id', 'number', 'checksum', 'row_count');
+  const out = new Map<string, { checksum: string; recomputed: string; rows: number; rowCount: number }>();
+  for (let k = 0; k < vintages.length; k += 200) {
+    const chunk = vintages.slice(k, k + 200);
+    const obs = await db('observations').whereIn('vintage_id', chunk.map((v) => v.id)).orderBy(['vintage_id', 'period']).select('vintage_id', 'period', 'value');
+    const by = new Map<number, { periods: string[]; values: (number | null)[] }>();
+    for (const o of obs) {
+      const e = by.get(o.vintage_id) ?? { periods: [], values: [] };
+      e.periods.push(o.period);
+      e.values.push(o.value === null ? null : Number(o.value));
+      by.set(o.vintage_id, e);
+    }
+    for (const v of chunk) {
+      const e = by.get(v.id) ?? { periods: [], values: [] };
+      out.set(`${v.series_id}#${v.number}`, { checksum: v.checksum, recomputed: checksumOf(e.periods, e.values), rows: e.periods.length, rowCount: v.row_count });
+    }
+  }
+  return out;
 }
