@@ -1,6 +1,8 @@
 import { Link } from 'react-router-dom';
+import { useDocumentTitle } from '@/lib/useDocumentTitle';
 
 export function NotFoundPage() {
+  useDocumentTitle('This page does not exist');
   return (
     <section className="max-w-xl">
       <p className="text-sm font-semibold uppercase tracking-wide text-ink-faint">404</p>

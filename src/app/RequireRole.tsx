@@ -3,6 +3,7 @@ import { Link } from 'react-router-dom';
 import { allows, type Access } from '@schemas/access';
 import { ROLE_LABELS, ROLES } from '@schemas/people';
 import { useMe } from '@/features/auth/api';
+import { useDocumentTitle } from '@/lib/useDocumentTitle';
 
 /** Shows its children to those the access rule lets in (server/schemas/access.ts); anyone else who follows a link gets a clear page. */
 export function RequireRole({ access, children }: { access: Access; children: ReactNode }) {
@@ -16,6 +17,7 @@ export function RoleNeeded({ access }: { access: Access }) {
   const roles = typeof access === 'string' ? ROLES : access;
   const names = roles.map((r) => ROLE_LABELS[r].toLowerCase());
   const list = names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} or ${names[names.length - 1]}`;
+  useDocumentTitle(`You need the ${list} role`);
   return (
     <section className="max-w-xl" data-testid="role-needed">
       <p className="text-sm font-semibold uppercase tracking-wide text-ink-faint">Not available to you</p>

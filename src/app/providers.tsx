@@ -1,6 +1,7 @@
-/** The client's providers: TanStack Query (no retries on 4xx) around the router. */
+/** The client's providers: TanStack Query (no retries on 4xx) and the live region around the router. */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { RouterProvider } from 'react-router-dom';
+import { AnnouncerProvider } from '@/components/Announcer';
 import { ApiError } from '@/lib/api';
 import { router } from './router';
 
@@ -17,7 +18,9 @@ const queryClient = new QueryClient({
 export function Providers() {
   return (
     <QueryClientProvider client={queryClient}>
-      <RouterProvider router={router} />
+      <AnnouncerProvider>
+        <RouterProvider router={router} />
+      </AnnouncerProvider>
     </QueryClientProvider>
   );
 }

@@ -1,6 +1,10 @@
 /** A sortable table on TanStack Table, with the house style: hairlines, tabular figures for numbers. */
 import { flexRender, getCoreRowModel, getFilteredRowModel, getSortedRowModel, useReactTable, type ColumnDef, type SortingState } from '@tanstack/react-table';
 import { useState } from 'react';
+import { ScrollRegion } from './ScrollRegion';
+
+/** A column header read by screen readers but not shown (a column of buttons): a table header is never empty. */
+export const hiddenHeader = (text: string) => () => <span className="sr-only">{text}</span>;
 
 export interface DataTableProps<T> {
   data: T[];
@@ -11,9 +15,11 @@ export interface DataTableProps<T> {
   onRowClick?: (row: T) => void;
   testId?: string;
   dense?: boolean;
+  /** Names the table's box for keyboard users when it scrolls. */
+  label?: string;
 }
 
-export function DataTable<T>({ data, columns, globalFilter, initialSorting = [], empty = 'Nothing here yet.', onRowClick, testId, dense }: DataTableProps<T>) {
+export function DataTable<T>({ data, columns, globalFilter, initialSorting = [], empty = 'Nothing here yet.', onRowClick, testId, dense, label = 'Table' }: DataTableProps<T>) {
   const [sorting, setSorting] = useState<SortingState>(initialSorting);
   const table = useReactTable({
     data,
@@ -26,7 +32,7 @@ export function DataTable<T>({ data, columns, globalFilter, initialSorting = [],
   });
   const pad = dense ? 'px-2 py-1' : 'px-3 py-2';
   return (
-    <div className="card overflow-x-auto">
+    <ScrollRegion label={label} className="card overflow-x-auto">
       <table className="w-full border-collapse text-sm" data-testid={testId}>
         <thead>
           {table.getHeaderGroups().map((hg) => (
@@ -77,6 +83,6 @@ export function DataTable<T>({ data, columns, globalFilter, initialSorting = [],
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollRegion>
   );
 }

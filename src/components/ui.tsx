@@ -1,6 +1,7 @@
 /** Small shared pieces of the interface. */
-import type { ReactNode } from 'react';
+import { useId, useRef, type KeyboardEvent, type ReactNode } from 'react';
 import { ApiError } from '@/lib/api';
+import { useDocumentTitle } from '@/lib/useDocumentTitle';
 
 export function ErrorNote({ error, title }: { error: unknown; title?: string }) {
   if (!error) return null;
@@ -60,7 +61,9 @@ export function Field({ label, error, hint, children, htmlFor }: { label: string
   );
 }
 
-export function PageHeader({ title, kicker, actions, children }: { title: ReactNode; kicker?: ReactNode; actions?: ReactNode; children?: ReactNode }) {
+/** The page's h1, kicker (where it belongs), actions and a line under the title; it names the browser tab too. */
+export function PageHeader({ title, kicker, actions, children }: { title: string; kicker?: ReactNode; actions?: ReactNode; children?: ReactNode }) {
+  useDocumentTitle(title);
   return (
     <div className="mb-6 flex flex-wrap items-end justify-between gap-4 border-b border-hairline pb-4">
       <div>
@@ -96,15 +99,52 @@ export function formatDate(iso: string | null | undefined, withTime = false) {
   return withTime ? `${date} ${d.toISOString().slice(11, 16)} UTC` : date;
 }
 
-/** A row of tabs: `tabs` are [id, label] pairs; the chosen one is `value`. */
-export function Tabs<T extends string>({ tabs, value, onChange }: { tabs: readonly (readonly [T, string])[]; value: T; onChange: (id: T) => void }) {
+/**
+ * Tabs with the ARIA tabs pattern: a `tablist` of `tab` buttons and the chosen tab's `tabpanel`
+ * (the children). Arrow keys move between the tabs and choose them, Home and End go to the first
+ * and the last; only the chosen tab is in the Tab order. `tabs` are [id, label] pairs.
+ */
+export function Tabs<T extends string>({ tabs, value, onChange, label, children }: { tabs: readonly (readonly [T, string])[]; value: T; onChange: (id: T) => void; label: string; children: ReactNode }) {
+  const base = useId();
+  const refs = useRef(new Map<T, HTMLButtonElement>());
+  const tabId = (id: T) => `${base}-tab-${id}`;
+  const choose = (id: T) => {
+    onChange(id);
+    refs.current.get(id)?.focus();
+  };
+  const onKeyDown = (e: KeyboardEvent<HTMLDivElement>) => {
+    const i = tabs.findIndex(([id]) => id === value);
+    const next = { ArrowRight: i + 1, ArrowLeft: i - 1, Home: 0, End: tabs.length - 1 }[e.key];
+    if (next === undefined) return;
+    e.preventDefault();
+    choose(tabs[(next + tabs.length) % tabs.length][0]);
+  };
   return (
-    <div role="tablist" className="mb-4 flex gap-1 border-b border-hairline">
-      {tabs.map(([id, label]) => (
-        <button key={id} role="tab" aria-selected={value === id} onClick={() => onChange(id)} className={`-mb-px border-b-2 px-3 py-2 text-sm font-semibold ${value === id ? 'border-trend text-ink' : 'border-transparent text-ink-soft hover:text-ink'}`}>
-          {label}
-        </button>
-      ))}
-    </div>
+    <>
+      <div role="tablist" aria-label={label} className="mb-4 flex gap-1 border-b border-hairline" onKeyDown={onKeyDown}>
+        {tabs.map(([id, text]) => (
+          <button
+            key={id}
+            ref={(el) => {
+              if (el) refs.current.set(id, el);
+              else refs.current.delete(id);
+            }}
+            type="button"
+            role="tab"
+            id={tabId(id)}
+            aria-selected={value === id}
+            aria-controls={`${base}-panel`}
+            tabIndex={value === id ? 0 : -1}
+            onClick={() => onChange(id)}
+            className={`-mb-px border-b-2 px-3 py-2 text-sm font-semibold ${value === id ? 'border-trend text-ink' : 'border-transparent text-ink-soft hover:text-ink'}`}
+          >
+            {text}
+          </button>
+        ))}
+      </div>
+      <div role="tabpanel" id={`${base}-panel`} aria-labelledby={tabId(value)} tabIndex={0} className="focus-visible:outline-offset-4">
+        {children}
+      </div>
+    </>
   );
 }

@@ -14,6 +14,7 @@ import {
   VisualMapComponent,
 } from 'echarts/components';
 import { CanvasRenderer, SVGRenderer } from 'echarts/renderers';
+import { PALETTE } from '@schemas/palette';
 
 echarts.use([
   LineChart,
@@ -36,16 +37,16 @@ echarts.use([
 
 export { echarts };
 
-/** The palette of DESIGN.md. */
+/** The palette of DESIGN.md (server/schemas/palette.ts): bars above zero keep DESIGN.md's ochre. */
 export const COLORS = {
-  paper: '#FAF8F3',
-  ink: '#1E2430',
-  inkSoft: '#4B5263',
-  hairline: '#D9D4C7',
-  trend: '#0E6E68',
-  above: '#B7791F',
-  below: '#4A5A70',
-  alert: '#A23B2A',
+  paper: PALETTE.paper.DEFAULT,
+  ink: PALETTE.ink.DEFAULT,
+  inkSoft: PALETTE.ink.soft,
+  hairline: PALETTE.hairline.DEFAULT,
+  trend: PALETTE.trend.DEFAULT,
+  above: PALETTE.above.bar,
+  below: PALETTE.below.DEFAULT,
+  alert: PALETTE.alert.DEFAULT,
 };
 
 /** Sequential violet ramp for vintages: oldest lightest, newest darkest. */

@@ -3,7 +3,8 @@
  * at print resolution (pixelRatio 3). Fonts are the shipped ones, loaded before drawing.
  */
 import { downloadBlob } from '@/lib/api';
-import { echarts } from './echarts';
+import { chartData, chartSummary, svgWithText } from '@schemas/chart-text';
+import { echarts, fmt } from './echarts';
 
 async function withChart<T>(option: echarts.EChartsCoreOption, width: number, height: number, renderer: 'svg' | 'canvas', pixelRatio: number, use: (c: ReturnType<typeof echarts.init>) => T): Promise<T> {
   await document.fonts?.ready;
@@ -21,10 +22,19 @@ async function withChart<T>(option: echarts.EChartsCoreOption, width: number, he
 }
 
 export async function chartToSvg(option: echarts.EChartsCoreOption, width = 1000, height = 560): Promise<string> {
-  return withChart(option, width, height, 'svg', 1, (c) => {
+  const svg = await withChart(option, width, height, 'svg', 1, (c) => {
     const url = c.getDataURL({ type: 'svg' });
     return decodeURIComponent(url.slice(url.indexOf(',') + 1));
   });
+  return svgWithText(svg, ...svgTitleAndDesc(option));
+}
+
+/** The file's `<title>` (the chart's title) and `<desc>` (its subtitle, the generated summary, and the source, stamp and caution lines). */
+export function svgTitleAndDesc(option: echarts.EChartsCoreOption): [string, string] {
+  const o = option as { title?: { text?: string; subtext?: string }; graphic?: { style?: { text?: string } }[] };
+  const footer = (o.graphic ?? []).map((g) => g.style?.text).filter((t): t is string => !!t);
+  const desc = [o.title?.subtext, chartSummary(chartData(option), (v) => fmt(v)), ...footer].filter(Boolean).join(' ');
+  return [o.title?.text || 'Chart', desc];
 }
 
 export async function chartToPngBlob(option: echarts.EChartsCoreOption, width = 1000, height = 560, pixelRatio = 3): Promise<Blob> {

@@ -1,10 +1,12 @@
 import type { ReactNode } from 'react';
 import { StatusLine } from '@/features/system/StatusLine';
+import { useDocumentTitle } from '@/lib/useDocumentTitle';
 
 /** The quiet frame around the sign-in, invitation and reset pages. */
 export function AuthFrame({ title, children }: { title: string; children: ReactNode }) {
+  useDocumentTitle(title);
   return (
-    <div className="flex min-h-screen items-center justify-center bg-paper px-4">
+    <main className="flex min-h-screen items-center justify-center bg-paper px-4">
       <div className="w-full max-w-sm">
         <div className="mb-6 flex items-center gap-2">
           <img src="/favicon.svg" alt="" className="h-8 w-8" />
@@ -18,6 +20,6 @@ export function AuthFrame({ title, children }: { title: string; children: ReactN
           <StatusLine />
         </div>
       </div>
-    </div>
+    </main>
   );
 }

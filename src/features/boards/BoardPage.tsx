@@ -110,22 +110,27 @@ function PanelCard({
         </div>
         {owner && (
           <div className="flex shrink-0 items-center gap-1 text-xs">
-            <button className="btn-quiet px-2 py-0.5" disabled={first} onClick={() => onMove(-1)} aria-label="Move earlier" title="Move earlier">
-              ↑
+            <button className="btn-quiet px-2 py-0.5" disabled={first} onClick={() => onMove(-1)} aria-label={`Move “${panel.title}” earlier`} title="Move earlier">
+              <span aria-hidden>↑</span>
             </button>
-            <button className="btn-quiet px-2 py-0.5" disabled={last} onClick={() => onMove(1)} aria-label="Move later" title="Move later">
-              ↓
+            <button className="btn-quiet px-2 py-0.5" disabled={last} onClick={() => onMove(1)} aria-label={`Move “${panel.title}” later`} title="Move later">
+              <span aria-hidden>↓</span>
             </button>
-            <button className="btn-quiet px-2 py-0.5" onClick={() => onResize({ width: panel.width === 2 ? 1 : 2 })} aria-label={panel.width === 2 ? 'Half width' : 'Full width'}>
-              {panel.width === 2 ? '½' : '↔'}
+            <button
+              className="btn-quiet px-2 py-0.5"
+              onClick={() => onResize({ width: panel.width === 2 ? 1 : 2 })}
+              aria-label={panel.width === 2 ? `Make “${panel.title}” half width` : `Make “${panel.title}” full width`}
+              title={panel.width === 2 ? 'Half width' : 'Full width'}
+            >
+              <span aria-hidden>{panel.width === 2 ? '½' : '↔'}</span>
             </button>
-            <select className="field w-auto px-1 py-0.5 text-xs" value={panel.height} onChange={(e) => onResize({ height: e.target.value as Panel['height'] })} aria-label="Height">
+            <select className="field w-auto px-1 py-0.5 text-xs" value={panel.height} onChange={(e) => onResize({ height: e.target.value as Panel['height'] })} aria-label={`Height of “${panel.title}”`}>
               <option value="s">short</option>
               <option value="m">medium</option>
               <option value="l">tall</option>
             </select>
-            <button className="btn-danger px-2 py-0.5" onClick={onRemove} aria-label={`Remove ${panel.title}`}>
-              ✕
+            <button className="btn-danger px-2 py-0.5" onClick={onRemove} aria-label={`Remove “${panel.title}”`} title="Remove">
+              <span aria-hidden>✕</span>
             </button>
           </div>
         )}

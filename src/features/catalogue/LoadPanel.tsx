@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { Chart } from '@/components/charts/Chart';
 import { vintagesChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
-import { DataTable } from '@/components/DataTable';
+import { DataTable, hiddenHeader } from '@/components/DataTable';
 import { ErrorNote, Field, Progress } from '@/components/ui';
 import type { UploadProgress } from '@/lib/upload';
 import { useLoad, useObservations, type LoadPreview, type Problem, type Series } from './api';
@@ -23,7 +23,7 @@ export function ProblemsTable({ problems }: { problems: Problem[] }) {
       testId="problems-table"
       data={problems}
       columns={[
-        { accessorKey: 'severity', header: '', cell: (c) => <span className={`tag ${c.getValue() === 'error' ? 'border-alert text-alert' : 'border-above text-above'}`}>{c.getValue()}</span> },
+        { accessorKey: 'severity', header: hiddenHeader('Severity'), cell: (c) => <span className={`tag ${c.getValue() === 'error' ? 'border-alert text-alert' : 'border-above text-above'}`}>{c.getValue()}</span> },
         { accessorKey: 'row', header: 'Row', meta: { numeric: true }, cell: (c) => c.getValue() ?? '—' },
         { accessorKey: 'column', header: 'Column', cell: (c) => c.getValue() ?? '—' },
         { accessorKey: 'message', header: 'Problem' },

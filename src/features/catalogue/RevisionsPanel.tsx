@@ -3,6 +3,7 @@ import { Chart } from '@/components/charts/Chart';
 import { revisionBars, vintagesChart } from '@/components/charts/options';
 import { fmt, vintageColor } from '@/components/charts/echarts';
 import { DataTable } from '@/components/DataTable';
+import { ScrollRegion } from '@/components/ScrollRegion';
 import { EmptyState, ErrorNote, Spinner } from '@/components/ui';
 import { useObservations, useRevisions, useTriangle, useVintages } from './api';
 
@@ -55,7 +56,7 @@ export function RevisionsPanel({ id, unit }: { id: number; unit: string }) {
       {a.data && b.data && rev.data && (
         <div className="grid gap-4 lg:grid-cols-2">
           <div className="card p-3">
-            <h3 className="mb-1 font-heading text-sm font-bold">Vintages {from} and {to}</h3>
+            <h2 className="mb-1 font-heading text-sm font-bold">Vintages {from} and {to}</h2>
             <Chart
               testId="revision-levels"
               label={`Vintage ${from} and vintage ${to}`}
@@ -63,7 +64,7 @@ export function RevisionsPanel({ id, unit }: { id: number; unit: string }) {
             />
           </div>
           <div className="card p-3">
-            <h3 className="mb-1 font-heading text-sm font-bold">Revision, vintage {to} minus vintage {from}</h3>
+            <h2 className="mb-1 font-heading text-sm font-bold">Revision, vintage {to} minus vintage {from}</h2>
             <Chart testId="revision-chart" label="Revisions by period" option={revisionBars({ unit, periods: rev.data.items.map((r) => r.period), revision: rev.data.items.map((r) => r.revision) })} />
           </div>
         </div>
@@ -106,14 +107,14 @@ function Triangle({ id, unit }: { id: number; unit: string }) {
   if (tri.error) return <ErrorNote error={tri.error} />;
   const n = tri.data.vintages.length;
   return (
-    <div className="card max-h-[28rem] overflow-auto" data-testid="revision-triangle">
+    <ScrollRegion label="Revision triangle" className="card max-h-[28rem] overflow-auto" testId="revision-triangle">
       <table className="w-full border-collapse text-sm">
         <caption className="px-3 py-2 text-left text-xs text-ink-soft">Periods down, vintages across ({unit}); a value differs from the vintage before it where it is marked.</caption>
         <thead className="sticky top-0 bg-paper-deep">
           <tr>
-            <th className="px-3 py-1 text-left text-xs font-semibold uppercase text-ink-soft">Period</th>
+            <th scope="col" className="px-3 py-1 text-left text-xs font-semibold uppercase text-ink-soft">Period</th>
             {tri.data.vintages.map((v, i) => (
-              <th key={v.number} className="px-3 py-1 text-right text-xs font-semibold" style={{ color: vintageColor(i, n) }}>
+              <th key={v.number} scope="col" className="border-b-4 px-3 py-1 text-right text-xs font-semibold text-ink" style={{ borderBottomColor: vintageColor(i, n) }}>
                 v{v.number}
                 <span className="block font-normal text-ink-faint">{v.asOf}</span>
               </th>
@@ -123,7 +124,7 @@ function Triangle({ id, unit }: { id: number; unit: string }) {
         <tbody>
           {rows.map((r) => (
             <tr key={r.period} className="border-t border-hairline">
-              <td className="px-3 py-1">{r.period}</td>
+              <th scope="row" className="px-3 py-1 text-left font-normal">{r.period}</th>
               {r.values.map((v, i) => {
                 const prev = i > 0 ? r.values[i - 1] : null;
                 const changed = i > 0 && prev !== null && v !== null && prev !== v;
@@ -137,6 +138,6 @@ function Triangle({ id, unit }: { id: number; unit: string }) {
           ))}
         </tbody>
       </table>
-    </div>
+    </ScrollRegion>
   );
 }

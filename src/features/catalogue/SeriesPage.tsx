@@ -5,6 +5,7 @@ import { Chart } from '@/components/charts/Chart';
 import { levelChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
 import { DataTable } from '@/components/DataTable';
+import { ScrollRegion } from '@/components/ScrollRegion';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner, Tabs } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { API } from '@/lib/api';
@@ -62,11 +63,12 @@ export function SeriesPage() {
         </span>
       </PageHeader>
       {s.notes && <p className="mb-4 max-w-3xl whitespace-pre-wrap text-sm text-ink-soft">{s.notes}</p>}
-      <Tabs tabs={tabs} value={tab} onChange={setTab} />
-      {tab === 'overview' && <Overview id={id} unit={s.unit} hasVintages={s.vintageCount > 0} />}
-      {tab === 'vintages' && <VintageHistory id={id} code={s.code} />}
-      {tab === 'revisions' && <RevisionsPanel id={id} unit={s.unit} />}
-      {tab === 'load' && canLoad && <LoadPanel series={s} onStored={() => setTab('revisions')} />}
+      <Tabs tabs={tabs} value={tab} onChange={setTab} label="Views of the series">
+        {tab === 'overview' && <Overview id={id} unit={s.unit} hasVintages={s.vintageCount > 0} />}
+        {tab === 'vintages' && <VintageHistory id={id} code={s.code} />}
+        {tab === 'revisions' && <RevisionsPanel id={id} unit={s.unit} />}
+        {tab === 'load' && canLoad && <LoadPanel series={s} onStored={() => setTab('revisions')} />}
+      </Tabs>
     </>
   );
 }
@@ -85,7 +87,7 @@ function Overview({ id, unit, hasVintages }: { id: number; unit: string; hasVint
         </p>
         <Chart option={levelChart({ periods: obs.data.periods, values: obs.data.values, unit })} label={`Latest vintage, ${obs.data.periods.length} periods`} testId="series-chart" />
       </div>
-      <div className="max-h-[26rem] overflow-y-auto">
+      <ScrollRegion label="Values of the latest vintage" className="max-h-[26rem] overflow-y-auto">
         <DataTable
           dense
           data={rows}
@@ -94,7 +96,7 @@ function Overview({ id, unit, hasVintages }: { id: number; unit: string; hasVint
             { accessorKey: 'value', header: unit, meta: { numeric: true }, cell: (c) => (c.getValue() === null ? '—' : fmt(c.getValue() as number)) },
           ]}
         />
-      </div>
+      </ScrollRegion>
     </div>
   );
 }

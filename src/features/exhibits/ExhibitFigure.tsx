@@ -35,12 +35,14 @@ export function downloadExhibit(s: Snapshot, name: string, format: 'png' | 'svg'
   return downloadChart(option, name, format, { width: 1200, height: 675 });
 }
 
-export function ExhibitFigure({ snapshot, draft }: { snapshot: Snapshot; draft?: boolean }) {
+/** `titleLevel`: the exhibit's title is the page's h1 where the figure is the page (the public link), else an h2 (or h3 under a section's h2). */
+export function ExhibitFigure({ snapshot, draft, titleLevel = 2 }: { snapshot: Snapshot; draft?: boolean; titleLevel?: 1 | 2 | 3 }) {
   const option = useMemo(() => exhibitChart(snapshot), [snapshot]);
+  const Title = `h${titleLevel}` as const;
   return (
     <figure className="card space-y-2 bg-white p-5" data-testid="exhibit-figure">
       {draft && <p className="text-xs font-semibold uppercase tracking-wide text-above">Draft: live data, not yet frozen</p>}
-      <h2 className="font-heading text-xl font-bold">{snapshot.text.title}</h2>
+      <Title className="font-heading text-xl font-bold">{snapshot.text.title}</Title>
       {(snapshot.text.subtitle || snapshot.text.units) && (
         <p className="text-sm text-ink-soft">
           {snapshot.text.subtitle}
@@ -67,7 +69,7 @@ export function ExhibitFigure({ snapshot, draft }: { snapshot: Snapshot; draft?:
 
 export function ExhibitDownloads({ snapshot, dataUrl, name }: { snapshot: Snapshot; dataUrl: string; name: string }) {
   return (
-    <div className="flex flex-wrap gap-2" aria-label="Downloads">
+    <div role="group" className="flex flex-wrap gap-2" aria-label="Downloads">
       <button type="button" className="btn-quiet" onClick={() => downloadExhibit(snapshot, name, 'png')}>
         PNG
       </button>

@@ -1,10 +1,11 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useState } from 'react';
+import { useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { z } from 'zod';
 import { fmt } from '@/components/charts/echarts';
 import { ACCESS, allows } from '@schemas/access';
+import { useAnnounce } from '@/components/Announcer';
 import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { MOVE_LABELS, STATE_LABELS, useDiff, useExhibit, useExhibitMutations, type Exhibit, type ExhibitState } from './api';
@@ -76,14 +77,14 @@ function TextForm({ exhibit }: { exhibit: Exhibit }) {
   );
 }
 
-function Moves({ exhibit }: { exhibit: Exhibit }) {
+function Moves({ exhibit, onMoved }: { exhibit: Exhibit; onMoved: (e: Exhibit) => void }) {
   const { move } = useExhibitMutations(exhibit.id);
   const [comment, setComment] = useState('');
   if (!exhibit.moves.length) return null;
   const needsComment = exhibit.moves.some((m) => m.comment === 'required');
   return (
-    <div className="card space-y-3 p-4" aria-label="Moves">
-      <h2 className="font-heading text-base font-bold">Next step</h2>
+    <section className="card space-y-3 p-4" aria-labelledby="moves-heading">
+      <h2 id="moves-heading" className="font-heading text-base font-bold">Next step</h2>
       {(needsComment || exhibit.moves.some((m) => m.to !== 'in_review')) && (
         <Field label={exhibit.moves.some((m) => m.to === 'withdrawn') ? 'Reason (required to withdraw)' : 'Comment (required to return)'} htmlFor="move-comment">
           <textarea id="move-comment" rows={3} className="field" value={comment} onChange={(e) => setComment(e.target.value)} />
@@ -95,7 +96,17 @@ function Moves({ exhibit }: { exhibit: Exhibit }) {
             key={m.to}
             className={m.to === 'returned' || m.to === 'withdrawn' ? 'btn-danger' : 'btn'}
             disabled={move.isPending || (m.comment === 'required' && !comment.trim())}
-            onClick={() => move.mutate({ to: m.to, comment: comment.trim() || undefined }, { onSuccess: () => setComment('') })}
+            onClick={() =>
+              move.mutate(
+                { to: m.to, comment: comment.trim() || undefined },
+                {
+                  onSuccess: (next) => {
+                    setComment('');
+                    onMoved(next);
+                  },
+                },
+              )
+            }
           >
             {MOVE_LABELS[m.to]}
           </button>
@@ -106,7 +117,7 @@ function Moves({ exhibit }: { exhibit: Exhibit }) {
         <p className="text-xs text-ink-faint">Check the exhibit against your institution’s own publication and methodology rules before approving or publishing it.</p>
       )}
       <ErrorNote error={move.error} />
-    </div>
+    </section>
   );
 }
 
@@ -158,16 +169,26 @@ function ReviewPanel({ exhibit }: { exhibit: Exhibit }) {
         <div className="grid gap-3 xl:grid-cols-2">
           <div>
             <p className="label">Revision {d.from} (reviewed before)</p>
-            <ExhibitFigure snapshot={diff.data.previous} />
+            <ExhibitFigure snapshot={diff.data.previous} titleLevel={3} />
           </div>
           <div>
             <p className="label">Revision {d.to} (now)</p>
-            <ExhibitFigure snapshot={diff.data.current} />
+            <ExhibitFigure snapshot={diff.data.current} titleLevel={3} />
           </div>
         </div>
       )}
     </section>
   );
+}
+
+/** What screen readers hear after a review move. */
+function moveAnnouncement(e: Exhibit): string {
+  const more: Partial<Record<ExhibitState, string>> = {
+    in_review: ` (revision ${e.revision}): its data, vintages, method and parameters are frozen`,
+    returned: ' to the author',
+    approved: ': it can now be published',
+  };
+  return `“${e.title}” is now ${STATE_LABELS[e.status]}${more[e.status] ?? ''}.`;
 }
 
 export function ExhibitPage() {
@@ -176,6 +197,8 @@ export function ExhibitPage() {
   const me = useMe();
   const { remove } = useExhibitMutations(id);
   const navigate = useNavigate();
+  const announce = useAnnounce();
+  const stateRef = useRef<HTMLSpanElement>(null);
   if (ex.isPending) return <Spinner />;
   if (ex.error) return <ErrorNote error={ex.error} />;
   const e = ex.data;
@@ -196,7 +219,11 @@ export function ExhibitPage() {
         }
       >
         <span className="flex flex-wrap items-center gap-2">
-          <StateBadge state={e.status} /> by {e.author.name} · revision {e.revision}
+          <span ref={stateRef} tabIndex={-1} data-testid="exhibit-state-line" className="rounded">
+            <span className="sr-only">State: </span>
+            <StateBadge state={e.status} />
+          </span>{' '}
+          by {e.author.name} · revision {e.revision}
           {e.studyId && allows(ACCESS.studiesRead, me.data?.roles) && (
             <Link to={`/studies/${e.studyId}`} className="text-trend underline">
               study
@@ -226,7 +253,14 @@ export function ExhibitPage() {
           {reviewing && <ReviewPanel exhibit={e} />}
         </div>
         <aside className="space-y-4">
-          <Moves exhibit={e} />
+          <Moves
+            exhibit={e}
+            onMoved={(next) => {
+              // Focus goes to the new state (the button pressed may be gone) and the live region says it.
+              stateRef.current?.focus();
+              announce(moveAnnouncement(next));
+            }}
+          />
           {e.editable && <TextForm exhibit={e} />}
           <div className="card p-4">
             <h2 className="mb-2 font-heading text-base font-bold">History</h2>

@@ -17,24 +17,25 @@ export function ExhibitsPage() {
   return (
     <>
       <PageHeader title="Exhibits">Charts prepared for publication. An exhibit renders from the data frozen when it was submitted.</PageHeader>
-      <Tabs tabs={tabs} value={tab} onChange={setTab} />
-      {list.isPending && <Spinner />}
-      <ErrorNote error={list.error} />
-      {list.data?.length === 0 && <EmptyState title="No exhibits here">{isWriter ? 'Draft one from a study or a board panel.' : 'Published exhibits appear here.'}</EmptyState>}
-      {list.data && list.data.length > 0 && (
-        <DataTable
-          data={list.data}
-          testId="exhibits-table"
-          onRowClick={(e) => navigate(`/exhibits/${e.id}`)}
-          columns={[
-            { accessorKey: 'title', header: 'Title', cell: (c) => <Link className="font-semibold text-trend hover:underline" to={`/exhibits/${c.row.original.id}`}>{c.getValue()}</Link> },
-            { accessorKey: 'status', header: 'State', cell: (c) => <StateBadge state={c.getValue()} /> },
-            { id: 'author', header: 'Author', accessorFn: (e) => e.author.name },
-            { accessorKey: 'revision', header: 'Revision', meta: { numeric: true } },
-            { accessorKey: 'updatedAt', header: 'Changed', cell: (c) => formatDate(c.getValue(), true) },
-          ]}
-        />
-      )}
+      <Tabs tabs={tabs} value={tab} onChange={setTab} label="Which exhibits">
+        {list.isPending && <Spinner />}
+        <ErrorNote error={list.error} />
+        {list.data?.length === 0 && <EmptyState title="No exhibits here">{isWriter ? 'Draft one from a study or a board panel.' : 'Published exhibits appear here.'}</EmptyState>}
+        {list.data && list.data.length > 0 && (
+          <DataTable
+            data={list.data}
+            testId="exhibits-table"
+            onRowClick={(e) => navigate(`/exhibits/${e.id}`)}
+            columns={[
+              { accessorKey: 'title', header: 'Title', cell: (c) => <Link className="font-semibold text-trend hover:underline" to={`/exhibits/${c.row.original.id}`}>{c.getValue()}</Link> },
+              { accessorKey: 'status', header: 'State', cell: (c) => <StateBadge state={c.getValue()} /> },
+              { id: 'author', header: 'Author', accessorFn: (e) => e.author.name },
+              { accessorKey: 'revision', header: 'Revision', meta: { numeric: true } },
+              { accessorKey: 'updatedAt', header: 'Changed', cell: (c) => formatDate(c.getValue(), true) },
+            ]}
+          />
+        )}
+      </Tabs>
     </>
   );
 }

@@ -2,6 +2,7 @@ import { useQuery } from '@tanstack/react-query';
 import { useParams } from 'react-router-dom';
 import { ErrorNote, Spinner } from '@/components/ui';
 import { api } from '@/lib/api';
+import { useDocumentTitle } from '@/lib/useDocumentTitle';
 import type { PublicExhibit } from './api';
 import { ExhibitDownloads, ExhibitFigure } from './ExhibitFigure';
 
@@ -9,19 +10,27 @@ import { ExhibitDownloads, ExhibitFigure } from './ExhibitFigure';
 export function PublicExhibitPage() {
   const { slug = '' } = useParams();
   const ex = useQuery({ queryKey: ['public', slug], queryFn: () => api<PublicExhibit>(`/public/exhibits/${encodeURIComponent(slug)}`), retry: false });
+  useDocumentTitle(ex.data?.snapshot.text.title ?? (ex.error ? 'Exhibit not found' : 'Published exhibit'));
   return (
     <div className="mx-auto max-w-4xl px-6 py-8">
-      <p className="mb-4 flex items-center gap-2 text-sm text-ink-soft">
+      <header className="mb-4 flex items-center gap-2 text-sm text-ink-soft">
         <img src="/favicon.svg" alt="" className="h-5 w-5" /> Published with Tidegauge
-      </p>
-      {ex.isPending && <Spinner />}
-      {ex.error && <ErrorNote error={ex.error} />}
-      {ex.data?.snapshot && (
-        <div className="space-y-3">
-          <ExhibitFigure snapshot={ex.data.snapshot} />
-          <ExhibitDownloads snapshot={ex.data.snapshot} dataUrl={`/public/exhibits/${slug}/data`} name={`exhibit-${ex.data.id}`} />
-        </div>
-      )}
+      </header>
+      <main>
+        {ex.isPending && <Spinner />}
+        {ex.error && (
+          <>
+            <h1 className="page-title mb-3">Exhibit not found</h1>
+            <ErrorNote error={ex.error} />
+          </>
+        )}
+        {ex.data?.snapshot && (
+          <div className="space-y-3">
+            <ExhibitFigure snapshot={ex.data.snapshot} titleLevel={1} />
+            <ExhibitDownloads snapshot={ex.data.snapshot} dataUrl={`/public/exhibits/${slug}/data`} name={`exhibit-${ex.data.id}`} />
+          </div>
+        )}
+      </main>
     </div>
   );
 }

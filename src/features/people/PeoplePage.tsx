@@ -4,7 +4,7 @@ import { useMemo, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link } from 'react-router-dom';
 import { inviteSchema, ROLE_LABELS, ROLES, type InviteBody, type Role } from '@schemas/people';
-import { DataTable } from '@/components/DataTable';
+import { DataTable, hiddenHeader } from '@/components/DataTable';
 import { ErrorNote, Field, formatDate, PageHeader, Spinner, Tabs } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { useAudit, useInvitationAction, useInvitations, useInvite, usePeople, useSettings, useUpdatePerson, useUpdateSettings, type Person } from './api';
@@ -22,11 +22,12 @@ export function PeoplePage() {
       <PageHeader title="People" actions={<Link to="/people/mailbox" className="btn-quiet">Mailbox</Link>}>
         Who can use Tidegauge and what they may do.
       </PageHeader>
-      <Tabs tabs={tabs} value={tab} onChange={setTab} />
-      {tab === 'people' && <PeopleTab />}
-      {tab === 'invitations' && <InvitationsTab />}
-      {tab === 'audit' && <AuditTab />}
-      {tab === 'settings' && <SettingsTab />}
+      <Tabs tabs={tabs} value={tab} onChange={setTab} label="People and the workspace">
+        {tab === 'people' && <PeopleTab />}
+        {tab === 'invitations' && <InvitationsTab />}
+        {tab === 'audit' && <AuditTab />}
+        {tab === 'settings' && <SettingsTab />}
+      </Tabs>
     </>
   );
 }
@@ -67,7 +68,7 @@ function PeopleTab() {
       { accessorKey: 'lastSignInAt', header: 'Last sign-in', cell: (c) => formatDate(c.getValue(), true) },
       {
         id: 'actions',
-        header: '',
+        header: hiddenHeader('Actions'),
         enableSorting: false,
         cell: (c) => {
           const p = c.row.original;
@@ -156,7 +157,8 @@ function InvitationsTab() {
               { accessorKey: 'expiresAt', header: 'Expires', cell: (c) => (c.row.original.expired ? <span className="text-alert">expired</span> : formatDate(c.getValue())) },
               {
                 id: 'actions',
-                header: '',
+                header: hiddenHeader('Actions'),
+                enableSorting: false,
                 cell: (c) => (
                   <div className="flex gap-2">
                     <button className="btn-quiet" onClick={() => action.mutate({ id: c.row.original.id, action: 'resend' })}>

@@ -1,7 +1,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
 import { useForm } from 'react-hook-form';
 import { createTokenSchema, ROLE_LABELS } from '@schemas/people';
-import { DataTable } from '@/components/DataTable';
+import { DataTable, hiddenHeader } from '@/components/DataTable';
 import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { useTokenMutations, useTokens } from './api';
@@ -50,7 +50,8 @@ export function ProfilePage() {
               { accessorKey: 'lastUsedAt', header: 'Last used', cell: (c) => formatDate(c.getValue(), true) },
               {
                 id: 'state',
-                header: '',
+                header: hiddenHeader('State or action'),
+                enableSorting: false,
                 cell: (c) =>
                   c.row.original.revokedAt ? (
                     <span className="text-xs text-ink-faint">revoked {formatDate(c.row.original.revokedAt)}</span>

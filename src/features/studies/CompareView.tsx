@@ -4,6 +4,7 @@ import type { StudySpec } from '@schemas/studies';
 import { Chart } from '@/components/charts/Chart';
 import { compareChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
+import { ScrollRegion } from '@/components/ScrollRegion';
 import { ErrorNote, Spinner } from '@/components/ui';
 import { useSeriesList } from '@/features/catalogue/api';
 import { useCompare, useMethods } from './api';
@@ -83,7 +84,7 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
             />
           </div>
           {cmp.data.mixedFrequencies && <p className="text-sm text-alert">The lines have different frequencies, so cross-correlations are not computed.</p>}
-          <div className="card overflow-x-auto">
+          <ScrollRegion label="Statistics and cross-correlations" className="card overflow-x-auto">
             <table className="w-full text-sm" data-testid="compare-table">
               <thead className="bg-paper-deep/60 text-xs text-ink-soft">
                 <tr>
@@ -120,7 +121,7 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
               </tbody>
             </table>
             <p className="px-2 py-1 text-xs text-ink-faint">Cross-correlations corr(cₜ, referenceₜ₊ₖ) at leads and lags k: a peak at k &gt; 0 means the line leads the reference by k periods.</p>
-          </div>
+          </ScrollRegion>
         </>
       )}
     </div>

@@ -88,21 +88,21 @@ export function DecompositionView({ result, updating, title }: { result: StudyRe
       </div>
       <div className="card p-3">
         <div className="flex items-baseline justify-between">
-          <h3 className="font-heading text-sm font-bold">Series and trend</h3>
+          <h2 className="font-heading text-sm font-bold">Series and trend</h2>
           <ChartDownloads onDownload={(f) => downloadChart(withExhibitFrame(trendOpt as never, frame('series and trend')), `${fileBase}-trend`, f)} />
         </div>
         <Chart option={trendOpt} label="The series and its trend" testId="trend-chart" height={300} />
       </div>
       <div className="card p-3">
         <div className="flex items-baseline justify-between">
-          <h3 className="font-heading text-sm font-bold">Cycle ({result.unitOfCycle}), with peaks ▲ and troughs ▼</h3>
+          <h2 className="font-heading text-sm font-bold">Cycle ({result.unitOfCycle}), with peaks ▲ and troughs ▼</h2>
           <ChartDownloads onDownload={(f) => downloadChart(withExhibitFrame(cycleOpt as never, frame('cycle')), `${fileBase}-cycle`, f)} />
         </div>
         <Chart option={cycleOpt} label="The cycle with its turning points" testId="cycle-chart" height={260} />
       </div>
       <div className="grid gap-4 lg:grid-cols-2">
         <div className="card p-3">
-          <h3 className="font-heading text-sm font-bold">Gain of the cycle filter</h3>
+          <h2 className="font-heading text-sm font-bold">Gain of the cycle filter</h2>
           {gainOpt ? <Chart option={gainOpt} label="Gain against period" testId="gain-chart" height={230} /> : <p className="py-8 text-center text-sm text-ink-soft">{result.gain.note}</p>}
           {result.gain.note && gainOpt && <p className="text-xs text-ink-faint">{result.gain.note}</p>}
         </div>

@@ -6,6 +6,7 @@
 import { PERIOD_WORD, PERIODS_PER_YEAR, type Frequency } from '@schemas/frequency';
 import { cutoffPeriod, lambdaPresets, type MethodDescription, type ParamDescription, type ParamValue } from '@schemas/methods';
 import { fmt } from '@/components/charts/echarts';
+import { LambdaSlider } from './LambdaSlider';
 
 type Params = Record<string, unknown>;
 
@@ -18,15 +19,19 @@ interface Props {
   errors?: string | null;
 }
 
-const LOG_MIN = -1;
-const LOG_MAX = 7;
+/** What a screen reader says for λ: its value and the cut-off period it implies. */
+export function lambdaValueText(lambda: number | undefined, cutoff: number | null, periods: string, perYear: number): string {
+  if (!lambda || !(lambda > 0)) return 'λ not set';
+  const l = Number(lambda.toPrecision(6)).toLocaleString('en-US');
+  return `λ = ${l}; ${cutoff ? `cut-off ${fmt(cutoff, 1)} ${periods} (${fmt(cutoff / perYear, 1)} years)` : 'no cut-off above 2 periods'}`;
+}
 
 /** λ with a logarithmic slider, a number field, the presets and the equivalent cut-off period. */
 export function LambdaControl({ value, order = 2, frequency, onChange, required, hint }: { value: number | undefined; order?: number; frequency: Frequency; onChange: (v: number | undefined) => void; required?: boolean; hint?: string }) {
   const cutoff = value && value > 0 ? cutoffPeriod(value, order) : null;
   const words = PERIOD_WORD[frequency];
   const ppy = PERIODS_PER_YEAR[frequency];
-  const slider = value && value > 0 ? Math.min(LOG_MAX, Math.max(LOG_MIN, Math.log10(value))) : 3;
+  const presets = lambdaPresets(frequency);
   return (
     <div className="space-y-2">
       <div className="flex items-end gap-2">
@@ -53,19 +58,10 @@ export function LambdaControl({ value, order = 2, frequency, onChange, required,
           )}
         </div>
       </div>
-      <input
-        type="range"
-        aria-label="λ (logarithmic scale)"
-        className="w-full accent-[#0E6E68]"
-        min={LOG_MIN}
-        max={LOG_MAX}
-        step={0.01}
-        value={slider}
-        onChange={(e) => onChange(Number(Number(Math.pow(10, Number(e.target.value))).toPrecision(3)))}
-      />
+      <LambdaSlider value={value} presets={presets.map((p) => p.lambda)} valueText={lambdaValueText(value, cutoff, words[1], ppy)} onChange={onChange} />
       <div className="flex flex-wrap gap-1">
-        {lambdaPresets(frequency).map((p) => (
-          <button key={p.id} type="button" className={`tag hover:border-ink ${value === p.lambda ? 'border-trend bg-trend-light text-ink' : ''}`} title={p.source} onClick={() => onChange(p.lambda)}>
+        {presets.map((p) => (
+          <button key={p.id} type="button" className={`tag hover:border-ink ${value === p.lambda ? 'border-trend bg-trend-light text-ink' : ''}`} title={p.source} aria-pressed={value === p.lambda} onClick={() => onChange(p.lambda)}>
             {p.label}: {fmt(p.lambda, p.lambda < 10 ? 2 : 0)}
           </button>
         ))}

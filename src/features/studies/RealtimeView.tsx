@@ -48,7 +48,7 @@ export function RealtimeView({ studyId }: { studyId: number | undefined }) {
         <div className="space-y-4" data-testid="realtime-result">
           {result.note && <p className="text-sm text-above">{result.note}</p>}
           <div className="card p-3">
-            <h3 className="font-heading text-sm font-bold">Final, quasi-real-time and real-time estimates ({result.unitOfCycle})</h3>
+            <h2 className="font-heading text-sm font-bold">Final, quasi-real-time and real-time estimates ({result.unitOfCycle})</h2>
             <Chart
               testId="realtime-chart"
               label="Final against real-time estimates"
@@ -69,7 +69,7 @@ export function RealtimeView({ studyId }: { studyId: number | undefined }) {
             />
           </div>
           <div className="card p-3">
-            <h3 className="font-heading text-sm font-bold">Fan: the gap as each vintage saw it</h3>
+            <h2 className="font-heading text-sm font-bold">Fan: the gap as each vintage saw it</h2>
             <Chart
               testId="fan-chart"
               label="The gap from each vintage"

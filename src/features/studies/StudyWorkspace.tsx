@@ -215,17 +215,19 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
             ]}
             value={tab}
             onChange={setTab}
-          />
-          {!spec && <EmptyState title="Choose a series">Only series with at least one vintage can be decomposed.</EmptyState>}
-          {tab === 'decomposition' && spec && (
-            <>
-              {preview.isPending && <Spinner label="Decomposing…" />}
-              {preview.error && !preview.data && <ErrorNote error={preview.error} />}
-              {preview.data && <DecompositionView result={preview.data} updating={preview.isFetching || JSON.stringify(debounced) !== JSON.stringify(spec)} title={values.title || 'Study'} />}
-            </>
-          )}
-          {tab === 'compare' && spec && <CompareView spec={spec} frequency={frequency} />}
-          {tab === 'realtime' && <RealtimeView studyId={study?.id} />}
+            label="Views of the study"
+          >
+            {!spec && <EmptyState title="Choose a series">Only series with at least one vintage can be decomposed.</EmptyState>}
+            {tab === 'decomposition' && spec && (
+              <>
+                {preview.isPending && <Spinner label="Decomposing…" />}
+                {preview.error && !preview.data && <ErrorNote error={preview.error} />}
+                {preview.data && <DecompositionView result={preview.data} updating={preview.isFetching || JSON.stringify(debounced) !== JSON.stringify(spec)} title={values.title || 'Study'} />}
+              </>
+            )}
+            {tab === 'compare' && spec && <CompareView spec={spec} frequency={frequency} />}
+            {tab === 'realtime' && <RealtimeView studyId={study?.id} />}
+          </Tabs>
         </section>
       </div>
     </>
