@@ -5,6 +5,7 @@
  * its resubmission approve and publish it. After every review move the focus is on the new state and
  * the live region says it. No mouse, no clicks: only Tab, arrows, Enter, Space and typing.
  */
+import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { cutoffPeriod } from '../../server/schemas/methods.js';
 import type { TestServer } from '../helpers/app.js';
@@ -204,6 +205,16 @@ describe('by keyboard alone', () => {
     await page.getByTestId('review-diff').waitFor({ timeout: 15_000 });
     await moveByKeyboard(page, 'Approve', 'approved', /is now approved: it can now be published\./);
     await moveByKeyboard(page, 'Publish', 'published', /“The output gap, by keyboard” is now published\./);
+
+    // Its SVG carries a title and a description (the summary and the exhibit's lines).
+    await tabTo(page, named('SVG'), 'the SVG download');
+    const [download] = await Promise.all([page.waitForEvent('download'), page.keyboard.press('Enter')]);
+    const svg = fs.readFileSync((await download.path())!, 'utf8');
+    const title = /<svg\b[^>]*><title>([^<]*)<\/title><desc>([^<]*)<\/desc>/.exec(svg);
+    expect(title?.[1]).toBe('The output gap, by keyboard');
+    expect(title?.[2]).toMatch(/\d+ periods from \d{4}-Q\d to \d{4}-Q\d\. Latest value \(cycle\): -?[\d.]+ % of trend, \d{4}-Q\d\. Last turning point: a (peak|trough) in \d{4}-Q\d/);
+    expect(title?.[2]).toMatch(/data as of \d{4}-\d\d-\d\d, vintage 4 · Hodrick–Prescott, λ = 1 600/);
+    expect(title?.[2]).toMatch(/Caution: /);
     expect(unseen).toEqual([]);
   });
 });

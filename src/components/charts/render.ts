@@ -33,7 +33,8 @@ export async function chartToSvg(option: echarts.EChartsCoreOption, width = 1000
 export function svgTitleAndDesc(option: echarts.EChartsCoreOption): [string, string] {
   const o = option as { title?: { text?: string; subtext?: string }; graphic?: { style?: { text?: string } }[] };
   const footer = (o.graphic ?? []).map((g) => g.style?.text).filter((t): t is string => !!t);
-  const desc = [o.title?.subtext, chartSummary(chartData(option), (v) => fmt(v)), ...footer].filter(Boolean).join(' ');
+  const sentence = (t: string) => (/[.!?]$/.test(t.trim()) ? t.trim() : `${t.trim()}.`);
+  const desc = [o.title?.subtext, chartSummary(chartData(option), (v) => fmt(v)), ...footer].filter((t): t is string => !!t?.trim()).map(sentence).join(' ');
   return [o.title?.text || 'Chart', desc];
 }
 

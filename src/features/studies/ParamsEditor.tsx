@@ -6,6 +6,7 @@
 import { PERIOD_WORD, PERIODS_PER_YEAR, type Frequency } from '@schemas/frequency';
 import { cutoffPeriod, lambdaPresets, type MethodDescription, type ParamDescription, type ParamValue } from '@schemas/methods';
 import { fmt } from '@/components/charts/echarts';
+import { lambdaValueText } from './lambda-steps';
 import { LambdaSlider } from './LambdaSlider';
 
 type Params = Record<string, unknown>;
@@ -17,13 +18,6 @@ interface Props {
   params: Params;
   onChange: (params: Params) => void;
   errors?: string | null;
-}
-
-/** What a screen reader says for λ: its value and the cut-off period it implies. */
-export function lambdaValueText(lambda: number | undefined, cutoff: number | null, periods: string, perYear: number): string {
-  if (!lambda || !(lambda > 0)) return 'λ not set';
-  const l = Number(lambda.toPrecision(6)).toLocaleString('en-US');
-  return `λ = ${l}; ${cutoff ? `cut-off ${fmt(cutoff, 1)} ${periods} (${fmt(cutoff / perYear, 1)} years)` : 'no cut-off above 2 periods'}`;
 }
 
 /** λ with a logarithmic slider, a number field, the presets and the equivalent cut-off period. */

@@ -3,6 +3,8 @@
  * the frequency's presets (server/schemas/methods.ts), so that arrow keys move between values a
  * person would choose, and the words a screen reader says for the slider's value.
  */
+import { fmt } from '@/components/charts/echarts';
+
 export const LAMBDA_SLIDER_MIN = 0.1;
 export const LAMBDA_SLIDER_MAX = 1e7;
 
@@ -30,4 +32,12 @@ export function decadeStep(steps: readonly number[], index: number, direction: 1
   }
   for (let i = steps.length - 1; i >= 0; i--) if (steps[i] <= target * 1.001) return i;
   return 0;
+}
+
+/** What a screen reader says for λ: its value and the cut-off period it implies. */
+export function lambdaValueText(lambda: number | undefined, cutoff: number | null, periods: string, perYear: number): string {
+  if (!lambda || !(lambda > 0)) return 'λ not set';
+  const l = Number(lambda.toPrecision(6)).toLocaleString('en-US');
+  if (!cutoff) return `λ = ${l}; no cut-off above 2 periods`;
+  return `λ = ${l}; cut-off ${fmt(cutoff, 1)} ${periods}${perYear > 1 ? ` (${fmt(cutoff / perYear, 1)} years)` : ''}`;
 }
