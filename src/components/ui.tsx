@@ -1,5 +1,5 @@
 /** Small shared pieces of the interface. */
-import { useId, useRef, type KeyboardEvent, type ReactNode } from 'react';
+import { cloneElement, isValidElement, useId, useRef, type KeyboardEvent, type ReactNode } from 'react';
 import { ApiError } from '@/lib/api';
 import { useDocumentTitle } from '@/lib/useDocumentTitle';
 
@@ -44,16 +44,23 @@ export function EmptyState({ title, children }: { title: string; children?: Reac
   );
 }
 
+/** A labelled form field; its hint or error is tied to the control (aria-describedby, aria-invalid) when `htmlFor` names it. */
 export function Field({ label, error, hint, children, htmlFor }: { label: string; error?: string; hint?: ReactNode; children: ReactNode; htmlFor?: string }) {
+  const noteId = htmlFor && (error || hint) ? `${htmlFor}-note` : undefined;
+  const control = noteId && isValidElement<Record<string, unknown>>(children) ? cloneElement(children, { 'aria-describedby': noteId, 'aria-invalid': error ? true : undefined }) : children;
   return (
     <div>
       <label className="label" htmlFor={htmlFor}>
         {label}
       </label>
-      {children}
-      {hint && !error && <p className="mt-1 text-xs text-ink-faint">{hint}</p>}
+      {control}
+      {hint && !error && (
+        <p id={noteId} className="mt-1 text-xs text-ink-faint">
+          {hint}
+        </p>
+      )}
       {error && (
-        <p className="mt-1 text-xs font-semibold text-alert" role="alert">
+        <p id={noteId} className="mt-1 text-xs font-semibold text-alert" role="alert">
           {error}
         </p>
       )}

@@ -214,19 +214,19 @@ function PanelForm({ boardId, onDone }: { boardId: number; onDone: () => void })
           {ids.length > 1 ? (
             <>
               <label className="flex items-center gap-1">
-                <input type="radio" checked={compareBy === 'methods'} onChange={() => setCompareBy('methods')} /> methods
+                <input type="radio" name="panel-compare-by" checked={compareBy === 'methods'} onChange={() => setCompareBy('methods')} /> methods
               </label>
               <label className="flex items-center gap-1">
-                <input type="radio" checked={compareBy === 'series'} onChange={() => setCompareBy('series')} /> series
+                <input type="radio" name="panel-compare-by" checked={compareBy === 'series'} onChange={() => setCompareBy('series')} /> series
               </label>
             </>
           ) : (
             <>
               <label className="flex items-center gap-1">
-                <input type="radio" checked={compareBy !== 'vintages'} onChange={() => setCompareBy('methods')} /> nothing: one study
+                <input type="radio" name="panel-compare-by" checked={compareBy !== 'vintages'} onChange={() => setCompareBy('methods')} /> nothing: one study
               </label>
               <label className="flex items-center gap-1">
-                <input type="radio" checked={compareBy === 'vintages'} onChange={() => setCompareBy('vintages')} /> its vintages
+                <input type="radio" name="panel-compare-by" checked={compareBy === 'vintages'} onChange={() => setCompareBy('vintages')} /> its vintages
               </label>
             </>
           )}

@@ -34,10 +34,10 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
     <div className="space-y-4">
       <div className="flex gap-4 text-sm" role="radiogroup" aria-label="What to compare">
         <label className="flex items-center gap-2">
-          <input type="radio" checked={mode === 'methods'} onChange={() => setMode('methods')} /> Methods on this series
+          <input type="radio" name="compare-mode" checked={mode === 'methods'} onChange={() => setMode('methods')} /> Methods on this series
         </label>
         <label className="flex items-center gap-2">
-          <input type="radio" checked={mode === 'series'} onChange={() => setMode('series')} /> This method across series
+          <input type="radio" name="compare-mode" checked={mode === 'series'} onChange={() => setMode('series')} /> This method across series
         </label>
       </div>
       {mode === 'methods' ? (
