@@ -68,9 +68,9 @@ export function Field({ label, error, hint, children, htmlFor }: { label: string
   );
 }
 
-/** The page's h1, kicker (where it belongs), actions and a line under the title; it names the browser tab too. */
-export function PageHeader({ title, kicker, actions, children }: { title: string; kicker?: ReactNode; actions?: ReactNode; children?: ReactNode }) {
-  useDocumentTitle(title);
+/** The page's h1, kicker (where it belongs), actions and a line under the title; it names the browser tab too (`docTitle` where the h1 does not name the page). */
+export function PageHeader({ title, kicker, actions, children, docTitle }: { title: string; kicker?: ReactNode; actions?: ReactNode; children?: ReactNode; docTitle?: string }) {
+  useDocumentTitle(docTitle ?? title);
   return (
     <div className="mb-6 flex flex-wrap items-end justify-between gap-4 border-b border-hairline pb-4">
       <div>

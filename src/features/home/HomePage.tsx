@@ -35,7 +35,7 @@ export function HomePage() {
   const invented = series.data?.some((s) => /invented/i.test(s.source));
   return (
     <>
-      <PageHeader title={`Good to see you, ${me.data?.name.split(' ')[0] ?? ''}`}>
+      <PageHeader title={`Good to see you, ${me.data?.name.split(' ')[0] ?? ''}`} docTitle="Start page">
         Trend and cycle decompositions of the Catalogue’s series, every release kept as a vintage, and the charts that go into reports taken through review.
       </PageHeader>
       {invented && (
