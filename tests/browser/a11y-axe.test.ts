@@ -43,31 +43,21 @@ beforeAll(async () => {
 afterAll(() => suite?.close());
 
 /**
- * The addresses that stand for a page of the role map, for a role. A page added to the role map
- * fails this test until it gets an address here (every page is checked).
+ * The addresses that stand for a page of the role map, for a role: the path itself when it has no
+ * parameters, else the demo's records. A page with parameters added to the role map fails this test
+ * until it gets addresses here: every page is checked.
  */
 function addresses(path: string, role: Role): string[] {
   const concrete: Record<string, () => string[]> = {
-    '/': () => ['/'],
-    '/catalogue': () => ['/catalogue'],
-    '/catalogue/new': () => ['/catalogue/new'],
-    '/catalogue/loads': () => ['/catalogue/loads'],
     '/catalogue/:id': () => [`/catalogue/${ids.series}`],
     '/catalogue/:id/edit': () => [`/catalogue/${ids.series}/edit`],
-    '/studies': () => ['/studies'],
     '/studies/new': () => [`/studies/new?seriesId=${ids.series}`],
     '/studies/:id': () => [`/studies/${ids.study}`],
-    '/boards': () => ['/boards'],
     '/boards/:id': () => [`/boards/${ids.board}`],
-    '/exhibits': () => ['/exhibits'],
     '/exhibits/new': () => [`/exhibits/new?studyId=${ids.study}`],
     '/exhibits/:id': () => [`/exhibits/${ids.published}`, ...(role === 'economist' ? [`/exhibits/${ids.draft}`] : []), ...(role === 'editor' ? [`/exhibits/${ids.inReview}`] : [])],
-    '/review': () => ['/review'],
-    '/people': () => ['/people'],
-    '/people/mailbox': () => ['/people/mailbox'],
-    '/profile': () => ['/profile'],
   };
-  const make = concrete[path];
+  const make = concrete[path] ?? (path.includes(':') ? undefined : () => [path]);
   if (!make) throw new Error(`The accessibility test has no address for the page ${path}: add one to addresses() in ${import.meta.url}`);
   return make();
 }
