@@ -9,11 +9,12 @@ import express, { type Express, type RequestHandler } from 'express';
 import helmet from 'helmet';
 import { pinoHttp } from 'pino-http';
 import type { AppDeps, AppOptions } from './deps.js';
+import { createBackground } from './lib/background.js';
 import { errorHandler } from './lib/error-answer.js';
 import { HttpError } from './lib/errors.js';
 import { duringShutdown } from './lib/drain.js';
 import { mount, type RegisteredRoute, type RouteSpec } from './lib/http.js';
-import type { Logger } from './lib/logger.js';
+import { redactUrl, type Logger } from './lib/logger.js';
 import { createLucia } from './auth/lucia.js';
 import { authenticate, originCheck } from './auth/middleware.js';
 import { createMailer } from './mail/mailer.js';
@@ -34,13 +35,21 @@ export type { AppDeps, AppOptions };
 export const API_PREFIX = '/api/v1';
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 
-export function createApp(options: AppOptions): Express & { locals: { routes: RegisteredRoute[]; shutdown: () => Promise<void> } } {
+/** What the app keeps for its host and tests: the route table, shutdown, and work after the answer. */
+export interface AppLocals {
+  routes: RegisteredRoute[];
+  shutdown: () => Promise<void>;
+  background: AppDeps['background'];
+}
+
+export function createApp(options: AppOptions): Express & { locals: AppLocals } {
   const { config, logger, db } = options;
   const deps: AppDeps = {
     ...options,
     mailer: options.mailer ?? createMailer(config, logger, options.mailbox?.port),
     lucia: createLucia(db, config.sessionIdleHours, config.publicOrigin.startsWith('https://')),
     pool: options.pool ?? createAnalysisPool(config.workerThreads),
+    background: createBackground(logger),
   };
   configureObservationCache(config.observationCacheValues);
   const app = express();
@@ -81,7 +90,8 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
         logger,
         autoLogging: { ignore: (req) => req.url === '/api/v1/health' },
         serializers: {
-          req: (req) => ({ id: req.id, method: req.method, url: req.url }),
+          // Invitation and reset links carry their secret in the path: never logged.
+          req: (req) => ({ id: req.id, method: req.method, url: redactUrl(req.url) }),
           res: (res) => ({ statusCode: res.statusCode }),
         },
         // A 503 while the server drains is expected, not a failure.
@@ -111,7 +121,9 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
 
   const staticDir = config.staticDir ?? path.join(root, 'dist', 'client');
   if (fs.existsSync(path.join(staticDir, 'index.html'))) {
-    app.use('/assets', express.static(path.join(staticDir, 'assets'), { immutable: true, maxAge: '1y', fallthrough: false }));
+    app.use('/assets', express.static(path.join(staticDir, 'assets'), { immutable: true, maxAge: '1y' }));
+    // A missing asset is a 404 (an old page asking for a file of an earlier build), not an error to log.
+    app.use('/assets', (_req, res) => void res.status(404).type('text/plain').send('Not found.'));
     app.use(express.static(staticDir, { index: false, maxAge: '1h' }));
     const indexHtml = path.join(staticDir, 'index.html');
     app.use((req, res, next) => {
@@ -123,8 +135,12 @@ export function createApp(options: AppOptions): Express & { locals: { routes: Re
 
   app.use(errorHandler(logger, config));
   app.locals.routes = routes;
-  app.locals.shutdown = () => deps.pool.close();
-  return app as Express & { locals: { routes: RegisteredRoute[]; shutdown: () => Promise<void> } };
+  app.locals.shutdown = async () => {
+    await deps.background.idle();
+    await deps.pool.close();
+  };
+  app.locals.background = deps.background;
+  return app as Express & { locals: AppLocals };
 }
 
 /**

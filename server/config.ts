@@ -32,9 +32,17 @@ const schema = z.object({
   MAX_UPLOAD_MB: z.coerce.number().positive().max(1024).default(100),
   MAX_JSON_MB: z.coerce.number().positive().max(512).default(64),
   WORKER_THREADS: z.coerce.number().int().min(0).max(64).optional(),
+  /** Failed sign-ins to one account from one address before that pair waits (the owner elsewhere does not). */
   SIGN_IN_MAX_FAILURES_PER_ACCOUNT: z.coerce.number().int().min(1).default(5),
   SIGN_IN_MAX_FAILURES_PER_ADDRESS: z.coerce.number().int().min(1).default(30),
+  /** Failed sign-ins to one account from all addresses before only its known addresses may try. */
+  SIGN_IN_ACCOUNT_CEILING: z.coerce.number().int().min(1).default(100),
   SIGN_IN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
+  /** Password-reset requests per hour: from one address (then 429), and for one e-mail (then no more mail). */
+  RESET_MAX_PER_ADDRESS: z.coerce.number().int().min(1).default(10),
+  RESET_MAX_PER_EMAIL: z.coerce.number().int().min(1).default(3),
+  /** Heavy requests (decompositions of more than 100 000 values): units each account may spend per minute. */
+  HEAVY_UNITS_PER_MINUTE: z.coerce.number().int().min(1).default(30),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).optional(),
   STATIC_DIR: z.string().optional(),
   /** `0`: no demo workspace on an empty database (the set-up scripts). */
@@ -59,7 +67,9 @@ export type Config = {
   maxUploadBytes: number;
   maxJsonBytes: number;
   workerThreads: number;
-  signIn: { maxPerAccount: number; maxPerAddress: number; windowMinutes: number };
+  signIn: { maxPerAccount: number; maxPerAddress: number; accountCeiling: number; windowMinutes: number };
+  passwordReset: { maxPerAddress: number; maxPerEmail: number; windowMinutes: number };
+  heavyUnitsPerMinute: number;
   logLevel: string;
   staticDir?: string;
   seedDemo: boolean;
@@ -83,6 +93,10 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     throw new ConfigError('The fake mail server never runs in production; set SMTP_URL.');
   }
   const publicOrigin = (e.PUBLIC_ORIGIN ?? `http://${e.HOST === '0.0.0.0' ? '127.0.0.1' : e.HOST}:${e.PORT}`).replace(/\/$/, '');
+  const allowedOrigins = e.ALLOWED_ORIGINS.split(',').map((s) => s.trim().replace(/\/$/, '')).filter(Boolean);
+  // On a developer's machine the same server is reached as 127.0.0.1 or localhost: both are ours.
+  const loopback = /^(https?:\/\/)(127\.0\.0\.1|localhost)(:\d+)?$/.exec(publicOrigin);
+  if (loopback) allowedOrigins.push(`${loopback[1]}${loopback[2] === 'localhost' ? '127.0.0.1' : 'localhost'}${loopback[3] ?? ''}`);
   return {
     env: e.NODE_ENV,
     host: e.HOST,
@@ -90,7 +104,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     databaseUrl: e.DATABASE_URL,
     dbPoolMax: e.DB_POOL_MAX,
     publicOrigin,
-    allowedOrigins: e.ALLOWED_ORIGINS.split(',').map((s) => s.trim()).filter(Boolean),
+    allowedOrigins,
     trustProxy: e.TRUST_PROXY,
     sessionIdleHours: e.SESSION_IDLE_HOURS,
     mail: { mode, smtpUrl: e.SMTP_URL, from: e.MAIL_FROM, fakePort: e.FAKE_SMTP_PORT },
@@ -101,8 +115,11 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     signIn: {
       maxPerAccount: e.SIGN_IN_MAX_FAILURES_PER_ACCOUNT,
       maxPerAddress: e.SIGN_IN_MAX_FAILURES_PER_ADDRESS,
+      accountCeiling: e.SIGN_IN_ACCOUNT_CEILING,
       windowMinutes: e.SIGN_IN_WINDOW_MINUTES,
     },
+    passwordReset: { maxPerAddress: e.RESET_MAX_PER_ADDRESS, maxPerEmail: e.RESET_MAX_PER_EMAIL, windowMinutes: 60 },
+    heavyUnitsPerMinute: e.HEAVY_UNITS_PER_MINUTE,
     logLevel: e.LOG_LEVEL ?? (e.NODE_ENV === 'test' ? 'silent' : 'info'),
     staticDir: e.STATIC_DIR,
     seedDemo: e.SEED_DEMO,

@@ -10,6 +10,7 @@ import type { AppLucia } from './auth/lucia.js';
 import type { Mailer } from './mail/mailer.js';
 import type { FakeMailServer } from './mail/fake-smtp.js';
 import type { AnalysisPool } from './workers/pool.js';
+import type { Background } from './lib/background.js';
 
 export interface AppOptions {
   config: Config;
@@ -27,4 +28,6 @@ export interface AppDeps extends AppOptions {
   mailer: Mailer;
   lucia: AppLucia;
   pool: AnalysisPool;
+  /** Work done after the answer is sent (lib/background.ts). */
+  background: Background;
 }

@@ -5,7 +5,7 @@ import { ConfigError, loadConfig, type Config } from './config.js';
 import { createDb, poolInUse } from './db.js';
 import { createDrain } from './lib/drain.js';
 import { createLogger } from './lib/logger.js';
-import { startFakeMailServer, type FakeMailServer } from './mail/fake-smtp.js';
+import { startLocalMailbox, type FakeMailServer } from './mail/fake-smtp.js';
 import { createAnalysisPool } from './workers/pool.js';
 
 let config: Config;
@@ -22,13 +22,20 @@ try {
 const logger = createLogger(config.logLevel);
 const db = createDb(config.databaseUrl, config.dbPoolMax);
 // The fake mail server runs with the app in development and tests only (config refuses it in production).
+// Its mail goes to the port it really listens on, never to whatever else may hold FAKE_SMTP_PORT.
 let mailbox: FakeMailServer | undefined;
 if (config.mail.mode === 'fake') {
   try {
-    mailbox = await startFakeMailServer(config.mail.fakePort);
-    logger.info(`fake mail server on 127.0.0.1:${mailbox.port}; messages appear on the Mailbox page`);
+    const started = await startLocalMailbox(config.mail.fakePort);
+    mailbox = started.mailbox;
+    if (started.moved) {
+      const message = `Port ${config.mail.fakePort} (FAKE_SMTP_PORT) is taken by another program, so the fake mail server listens on 127.0.0.1:${mailbox.port} instead and Tidegauge sends its mail there. Set FAKE_SMTP_PORT to choose another port.`;
+      logger.warn({ requestedPort: config.mail.fakePort, port: mailbox.port }, message);
+      if (process.stdout.isTTY) console.error(`\n  ${message}\n`);
+    } else logger.info(`fake mail server on 127.0.0.1:${mailbox.port}; messages appear on the Mailbox page`);
   } catch (error) {
-    logger.warn({ err: error }, `the fake mail server could not listen on port ${config.mail.fakePort}; set FAKE_SMTP_PORT`);
+    console.error(`The fake mail server could not start on 127.0.0.1:${config.mail.fakePort} (${(error as Error).message}). Free the port or set FAKE_SMTP_PORT, or set MAIL_MODE=off to run without mail.`);
+    process.exit(1);
   }
 }
 const pool = createAnalysisPool(config.workerThreads);

@@ -18,6 +18,7 @@
 import { FREQUENCIES, PERIOD_WORD, PERIODS_PER_YEAR, type Frequency } from '../schemas/frequency.js';
 import { MAX_VALUES, TRANSFORMS, type Transform } from '../schemas/decompose.js';
 import type { ParamSpecs, ParamValue } from '../schemas/methods.js';
+import { SingularSystemError } from './banded.js';
 import { AnalysisError } from './errors.js';
 import { findMethod, METHOD_REGISTRY, methodIds } from './methods/index.js';
 import { paramsSchema } from './methods/params.js';
@@ -230,7 +231,17 @@ export function decompose(request: DecomposeRequest): DecomposeResult {
 /** decompose() with a given method definition (`request.method` is not looked up): the steps every method shares. */
 export function decomposeWith(method: AnyMethod, request: DecomposeRequest): DecomposeResult {
   const p = prepare(method, request);
-  return finish(p, method.run(p.core, p.params, { frequency: p.frequency, gaps: p.gaps }));
+  let out: MethodOutput;
+  try {
+    out = method.run(p.core, p.params, { frequency: p.frequency, gaps: p.gaps });
+  } catch (error) {
+    // A system the solver cannot factor is a request to change, not a server failure.
+    if (error instanceof SingularSystemError) {
+      throw new AnalysisError('unsolvable', `${method.name} cannot be computed accurately for these ${p.core.length.toLocaleString('en-US')} observations with these parameters (the linear system is too ill-conditioned). Use a shorter series, a smaller smoothing parameter, or another method.`);
+    }
+    throw error;
+  }
+  return finish(p, out);
 }
 
 /** "Hodrick–Prescott, λ = 1 600; 100 × log": the method line printed on exhibits and downloads. */

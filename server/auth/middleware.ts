@@ -63,7 +63,10 @@ export function authenticate(db: Db, lucia: AppLucia): RequestHandler {
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
 
-/** Cookie-borne writes need an Origin (or Referer) of ours. */
+/**
+ * Cookie-borne writes need an Origin (or Referer) of ours: the configured public origin or one of
+ * ALLOWED_ORIGINS. Never the request's own Host header, which the sender chooses.
+ */
 export function originCheck(config: Config): RequestHandler {
   const allowed = new Set([config.publicOrigin, ...config.allowedOrigins].map((o) => o.replace(/\/$/, '')));
   return (req, _res, next) => {
@@ -75,8 +78,7 @@ export function originCheck(config: Config): RequestHandler {
       if (!hasCookie) return next(); // a script signing in, with no cookie to abuse
       return next(new HttpError(403, 'origin_required', 'This request carries a session cookie but no Origin header; browsers send one, scripts should use an API token.'));
     }
-    const own = `${req.protocol}://${req.get('host')}`;
-    if (origin === own || allowed.has(origin)) return next();
+    if (allowed.has(origin)) return next();
     next(new HttpError(403, 'origin_mismatch', `Requests from ${origin.slice(0, 100)} may not change anything here.`));
   };
 }

@@ -1,14 +1,42 @@
 /**
- * Files out: CSV, XLSX (exceljs) and SDMX-CSV. Text cells that a spreadsheet would run as a
- * formula (starting with =, +, −, @, or a tab or carriage return) are prefixed with an apostrophe,
- * the common practice against formula injection (OWASP, "CSV Injection"). Numbers stay numbers.
+ * Files out: CSV, XLSX (exceljs) and SDMX-CSV. Every text cell of every export goes through one
+ * guard, `safeText`: a cell that a spreadsheet would run as a formula (its first character, after
+ * any spaces, is =, +, -, @, a tab, a carriage return, or the full-width ＝ ＋ － ＠) gets a leading
+ * apostrophe, the common practice against formula injection (OWASP, "CSV Injection"). In CSV,
+ * `csvField` / `csvLine` quote a text field by RFC 4180 (in double quotes, quotes doubled) when it
+ * holds a comma, quote or line break — and also a ";", a tab or edge spaces, so that a spreadsheet
+ * splitting on ";" or tabs (many European locales) never cuts "pct;=1+1" into a second cell that
+ * starts a formula. Numbers are written bare. Other CSV writers (SDMX-CSV out, the History table)
+ * write their rows with `csvLine`.
  */
 import ExcelJS from 'exceljs';
-import Papa from 'papaparse';
 
+const FORMULA_START = /^[\s\u00a0]*[=+\-@\t\r\uff1d\uff0b\uff0d\uff20]/;
+
+/** The formula guard for one text cell (CSV, XLSX, SDMX-CSV). */
 export function safeText(value: string | null | undefined): string {
   const s = value ?? '';
-  return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
+  return FORMULA_START.test(s) ? `'${s}` : s;
+}
+
+/** A CSV cell: a number (written bare; empty when missing or not finite) or text. */
+export type CsvCell = string | number | null | undefined;
+
+const NEEDS_QUOTES = /[",;\t\r\n]|^\s|\s$/;
+
+/** One CSV field: numbers bare; text through the formula guard, quoted when a spreadsheet could split or trim it. */
+export function csvField(value: CsvCell, kind: 'text' | 'number' = typeof value === 'number' ? 'number' : 'text'): string {
+  if (value === null || value === undefined) return '';
+  if (kind === 'number') return typeof value === 'number' && Number.isFinite(value) ? String(value) : '';
+  const s = safeText(String(value));
+  return NEEDS_QUOTES.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+/** One CSV line (without its newline); `kinds` says which cells are numbers (default: by their type). */
+export function csvLine(cells: readonly CsvCell[], kinds?: readonly ('text' | 'number')[]): string {
+  let line = '';
+  for (let i = 0; i < cells.length; i++) line += (i ? ',' : '') + csvField(cells[i], kinds?.[i]);
+  return line;
 }
 
 export interface ExportColumn {
@@ -32,8 +60,10 @@ function cell(kind: ExportColumn['kind'], v: string | number | null) {
 }
 
 export function toCsv(table: ExportTable): string {
-  const data = [table.columns.map((c) => safeText(c.header)), ...table.rows.map((r) => r.map((v, i) => cell(table.columns[i].kind, v)))];
-  return Papa.unparse(data, { newline: '\n' }) + '\n';
+  const kinds = table.columns.map((c) => c.kind);
+  const lines = [csvLine(table.columns.map((c) => c.header))];
+  for (const r of table.rows) lines.push(csvLine(r, kinds));
+  return lines.join('\n') + '\n';
 }
 
 export async function toXlsx(table: ExportTable): Promise<Buffer> {

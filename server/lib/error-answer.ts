@@ -49,6 +49,13 @@ export function errorAnswer(err: unknown, limits?: Limits): ErrorAnswer {
     const e = conflictExhausted(1);
     return answer(e.status, e.code, e.message, undefined, e.headers);
   }
+  // Express's own client errors (a bad path encoding, a static file refused): their status, a plain
+  // sentence, nothing logged.
+  const client = err as { status?: number; statusCode?: number; expose?: boolean } | null;
+  const clientStatus = client?.status ?? client?.statusCode;
+  if (client?.expose && typeof clientStatus === 'number' && clientStatus >= 400 && clientStatus < 500) {
+    return clientStatus === 404 ? answer(404, 'not_found', 'There is nothing at this address.') : answer(clientStatus, 'bad_request', 'The request could not be served as it was sent.');
+  }
   if (isDbUnavailable(err)) {
     return answer(503, 'database_unavailable', 'The database is not reachable right now. Nothing was changed; try again in a moment.', undefined, { 'Retry-After': '5' });
   }

@@ -84,3 +84,18 @@ export async function startFakeMailServer(port = 0, host = '127.0.0.1'): Promise
     close: () => new Promise<void>((resolve) => server.close(() => resolve())),
   };
 }
+
+/**
+ * The fake mail server as the app starts it: on `port`, or — when another program already holds
+ * that port — on a free port chosen by the system, so that mail never goes to whatever listens
+ * there. `moved` says when that happened (the caller says which port it took). Any other failure
+ * to listen is thrown.
+ */
+export async function startLocalMailbox(port: number): Promise<{ mailbox: FakeMailServer; moved: boolean }> {
+  try {
+    return { mailbox: await startFakeMailServer(port), moved: false };
+  } catch (error) {
+    if ((error as { code?: string }).code !== 'EADDRINUSE' || port === 0) throw error;
+    return { mailbox: await startFakeMailServer(0), moved: true };
+  }
+}

@@ -2,9 +2,9 @@ import type { Request, Response } from 'express';
 import type { AppDeps } from '../deps.js';
 import { clearSessionCookie, setSessionCookie } from '../auth/middleware.js';
 import type { RouteSpec } from '../lib/http.js';
-import { completeResetSchema, requestResetSchema, signInSchema } from '../schemas/auth.js';
+import { changePasswordSchema, completeResetSchema, requestResetSchema, signInSchema } from '../schemas/auth.js';
 import { acceptInvitationSchema, type PublicUser } from '../schemas/people.js';
-import { completePasswordReset, requestPasswordReset, signIn } from '../services/auth.js';
+import { acceptResetRequest, changePassword, completePasswordReset, sendResetLink, signIn } from '../services/auth.js';
 import { acceptInvitation, lookupInvitation } from '../services/people/invitations.js';
 import { z } from 'zod';
 
@@ -54,12 +54,16 @@ export function authRoutes(deps: AppDeps): RouteSpec[] {
       method: 'post',
       path: '/auth/password-reset',
       access: 'public',
-      summary: 'Mail a password-reset link (the same answer whether or not the address has an account)',
+      summary: 'Mail a password-reset link (the same answer, at once, whether or not the address has an account)',
       tags: ['auth'],
       body: requestResetSchema,
       status: 202,
       handler: async ({ body, req }) => {
-        await requestPasswordReset(deps, body.email, req.ip);
+        const ip = req.ip ?? '';
+        await acceptResetRequest(deps, body.email, ip);
+        // Looking the address up and mailing happen after the answer: its content and its timing
+        // are the same whether or not the address has an account.
+        deps.background.run('password reset', () => sendResetLink(deps, body.email, ip));
         return { ok: true, message: 'If this address has an account, a reset link is on its way.' };
       },
     },
@@ -67,11 +71,25 @@ export function authRoutes(deps: AppDeps): RouteSpec[] {
       method: 'post',
       path: '/auth/password-reset/complete',
       access: 'public',
-      summary: 'Set a new password with a reset link; signs in',
+      summary: 'Set a new password with a reset link; ends every other session, revokes the API tokens unless revokeTokens is false; signs in',
       tags: ['auth'],
       body: completeResetSchema,
       handler: async ({ body, req, res }) => {
-        return signedIn(req, res, await completePasswordReset(deps, body, req.ip ?? '', req.get('user-agent')));
+        const done = await completePasswordReset(deps, body, req.ip ?? '', req.get('user-agent'));
+        return { ...signedIn(req, res, done), revokedTokens: done.revokedTokens };
+      },
+    },
+    {
+      method: 'post',
+      path: '/auth/password',
+      access: 'signedIn',
+      summary: 'Change one’s password (the current one required); ends every other session, revokes the API tokens unless revokeTokens is false',
+      tags: ['auth'],
+      body: changePasswordSchema,
+      handler: async ({ body, auth, req, res }) => {
+        const done = await changePassword(deps, auth!.user, body, req.ip ?? '', req.get('user-agent'), auth!.via === 'cookie');
+        if (done.session) setSessionCookie(res, lucia, done.session.id, req.secure);
+        return { user: done.user, revokedTokens: done.revokedTokens };
       },
     },
     {

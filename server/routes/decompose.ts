@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { describeMethods, findMethod, gainCurve, methodIds, resolveParams } from '../analysis/index.js';
+import { describeMethods, findMethod, gainCurve, methodIds, resolveParams, type DecomposeRequest } from '../analysis/index.js';
 import { methodIdEnum } from '../analysis/methods/index.js';
 import type { AppDeps } from '../deps.js';
 import { badRequest } from '../lib/errors.js';
@@ -8,7 +8,8 @@ import { streamNdjson, wantsStream } from '../lib/stream.js';
 import { decomposeSchemas } from '../schemas/decompose.js';
 import { frequencySchema } from '../schemas/frequency.js';
 import { cutoffPeriod, lambdaForCutoff } from '../schemas/methods.js';
-import { batchDecompose, decomposeOne } from '../services/decompose.js';
+import { batchDecompose, batchValues, decomposeLarge, decomposeOne } from '../services/decompose.js';
+import { admitHeavy, heavyUnits } from '../services/heavy.js';
 import type { RawItem } from '../workers/batch-types.js';
 
 export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
@@ -22,7 +23,16 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Decompose one series into trend and cycle (stateless)',
       tags: ['analysis'],
       body: decomposeRequestSchema,
-      handler: ({ body }) => decomposeOne(body as never),
+      raw: true,
+      handler: async ({ body, auth, res }) => {
+        const request = body as never as DecomposeRequest;
+        const units = heavyUnits(request.values.length);
+        if (!units) return void res.json(decomposeOne(request));
+        // Heavy: counted against the account's budget, then computed and serialized off the request thread.
+        await admitHeavy(deps.db, deps.config.heavyUnitsPerMinute, auth!.user.id, units);
+        const bytes = await decomposeLarge(deps.pool, request);
+        res.status(200).type('application/json').end(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+      },
     },
     {
       method: 'post',
@@ -32,7 +42,8 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['analysis'],
       body: batchRequestSchema,
       raw: true,
-      handler: async ({ body, req, res }) => {
+      handler: async ({ body, auth, req, res }) => {
+        await admitHeavy(deps.db, deps.config.heavyUnitsPerMinute, auth!.user.id, heavyUnits(batchValues(body.items as never as RawItem[])));
         const run = (progress?: (done: number, total: number) => void) => batchDecompose(batch, body.items as never as RawItem[], body.output, progress);
         if (wantsStream(req)) {
           await streamNdjson(res, async (send) => {

@@ -81,7 +81,7 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
     {
       method: 'get',
       path: '/exhibits/:id/diff',
-      access: 'signedIn',
+      access: ACCESS.reviewRecord,
       summary: 'What changed between the latest revision and the one before (data, parameters, text)',
       tags: ['exhibits'],
       handler: ({ params, auth }) => exhibitDiff(deps, auth!.user, idParam(params.id, 'The exhibit')),

@@ -10,17 +10,21 @@ export function healthRoutes({ db }: AppDeps): RouteSpec[] {
       method: 'get',
       path: '/health',
       access: 'public',
-      summary: 'Liveness and database reachability',
+      summary: 'Liveness and database reachability (the software and database versions for signed-in administrators only)',
       tags: ['system'],
       raw: true,
-      handler: async ({ res }) => {
+      handler: async ({ res, auth }) => {
         res.setHeader('Cache-Control', 'no-store');
+        // Versions tell an attacker which known flaws to try: only administrators see them. For
+        // everyone else the keys are absent (not a placeholder a script could mistake for a version).
+        const admin = !!auth?.user.roles.includes('admin');
         try {
-          res.json({ status: 'ok', version, db: { ok: true, version: await ping() } });
+          const dbVersion = await ping();
+          res.json({ status: 'ok', ...(admin ? { version } : {}), db: { ok: true, ...(admin ? { version: dbVersion } : {}) } });
         } catch {
           res.status(503).json({
             status: 'unavailable',
-            version,
+            ...(admin ? { version } : {}),
             db: { ok: false },
             error: {
               code: 'database_unavailable',

@@ -3,7 +3,6 @@ import { METHOD_REGISTRY } from '../analysis/methods/index.js';
 import { paramsSchema } from '../analysis/methods/params.js';
 import type { Config } from '../config.js';
 import type { RegisteredRoute, RouteSpec } from '../lib/http.js';
-import { version } from '../lib/version.js';
 
 function jsonSchema(schema: z.ZodType | undefined) {
   if (!schema) return undefined;
@@ -36,7 +35,8 @@ export function buildOpenApi(routes: RegisteredRoute[], config: Config) {
   }
   return {
     openapi: '3.1.0',
-    info: { title: 'Tidegauge API', version, description: 'Trend–cycle decompositions, vintages and publication review.' },
+    // The API's version, not the software's (which only administrators see, on /health).
+    info: { title: 'Tidegauge API', version: '1', description: 'Trend–cycle decompositions, vintages and publication review.' },
     servers: [{ url: `${config.publicOrigin}/api/v1` }],
     paths,
     components: {

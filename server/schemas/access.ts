@@ -21,6 +21,8 @@ export const ACCESS = {
   exhibitsDraft: ['economist'],
   /** The Review desk. */
   review: ['editor'],
+  /** An exhibit's review record (revisions compared); per person: its author, editors and administrators (services/exhibits/views.ts). */
+  reviewRecord: ['economist', 'editor', 'admin'],
   /** People, invitations, the audit log, settings, the Mailbox. */
   people: ['admin'],
 } as const satisfies Record<string, readonly Role[]>;

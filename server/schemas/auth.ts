@@ -17,4 +17,12 @@ export const signInSchema = z.object({
 export type SignInBody = z.infer<typeof signInSchema>;
 
 export const requestResetSchema = z.object({ email: emailSchema });
-export const completeResetSchema = z.object({ token: z.string().min(10).max(200), password: newPasswordSchema });
+/** Whether a password change also revokes the person's API tokens (asked every time; default: revoke). */
+export const revokeTokensSchema = z.boolean().default(true);
+export const completeResetSchema = z.object({ token: z.string().min(10).max(200), password: newPasswordSchema, revokeTokens: revokeTokensSchema });
+export const changePasswordSchema = z.object({
+  currentPassword: z.string({ error: 'Enter your current password.' }).min(1, 'Enter your current password.').max(PASSWORD_MAX, `A password has at most ${PASSWORD_MAX} characters.`),
+  newPassword: newPasswordSchema,
+  revokeTokens: revokeTokensSchema,
+});
+export type ChangePasswordBody = z.input<typeof changePasswordSchema>;

@@ -86,8 +86,18 @@ export interface Exhibit extends ExhibitSummary {
   publicUrl: string | null;
 }
 
-/** A published exhibit by its public link. */
-export type PublicExhibit = ExhibitSummary & { snapshot: Snapshot; snapshotChecksum: string; events: ExhibitEvent[] };
+/** A published exhibit by its public link: what the published figure shows, nothing of its making (services/exhibits/views.ts). */
+export interface PublicExhibit {
+  slug: string;
+  title: string;
+  subtitle: string | null;
+  units: string | null;
+  sourceLine: string | null;
+  chartKind: 'cycle' | 'trend';
+  status: 'published';
+  publishedAt: string | null;
+  snapshot: Snapshot;
+}
 
 /** What changed between two revisions. */
 export interface ExhibitDiff {

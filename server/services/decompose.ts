@@ -2,17 +2,33 @@
  * Decompositions for the routes: one series, or a batch (values sent, or stored series by id and
  * vintage). Large batches go to worker threads and report progress.
  */
-import { decompose, toJsonResponse, type DecomposeJson, type DecomposeRequest } from '../analysis/index.js';
+import { AnalysisError, decompose, toJsonResponse, type DecomposeJson, type DecomposeRequest } from '../analysis/index.js';
 import type { Db } from '../db.js';
 import { badRequest } from '../lib/errors.js';
 import type { AnalysisPool } from '../workers/pool.js';
 import type { BatchItem, BatchOutput, FailedItem, RawItem } from '../workers/batch-types.js';
 import { runBatchChunk } from '../workers/decompose-task.js';
 import { resolveItems } from './batch-items.js';
+import { STORED_ITEM_VALUES } from './heavy.js';
 
 /** One decomposition in its JSON form; an AnalysisError becomes a 400 in the error handler. */
 export function decomposeOne(request: DecomposeRequest): DecomposeJson {
   return toJsonResponse(decompose(request));
+}
+
+/**
+ * One large decomposition on a worker thread, computed and written as JSON there: the request
+ * thread stays free for other requests (health checks included) and only sends the bytes.
+ */
+export async function decomposeLarge(pool: AnalysisPool, request: DecomposeRequest): Promise<Uint8Array> {
+  const answer = await pool.runSingle({ kind: 'single', request });
+  if (!answer.ok) throw new AnalysisError(answer.error.code, answer.error.message, answer.error.details);
+  return answer.body;
+}
+
+/** The values a batch carries (stored series counted at an estimate), for the heavy-request budget. */
+export function batchValues(items: RawItem[]): number {
+  return items.reduce((n, i) => n + (i.values?.length ?? (i.seriesId !== undefined ? STORED_ITEM_VALUES : 0)), 0);
 }
 
 export interface BatchContext {

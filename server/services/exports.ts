@@ -10,13 +10,15 @@ import { CAUTION_LINE } from '../schemas/cautions.js';
 import type { PublicUser } from '../schemas/people.js';
 import { alignByPeriod } from '../schemas/align.js';
 import { getSeries } from './catalogue/series.js';
-import { observationsOf, resolveVintage } from './catalogue/vintages.js';
+import { observationsOf, resolveVintage, vintageMetadata } from './catalogue/vintages.js';
 import { getExhibit, publicExhibit, type ExhibitDeps } from './exhibits/read.js';
 import { studyResult } from './studies/results.js';
 
+/** A vintage's observations, described by the metadata it was loaded under (not the series' metadata of today). */
 export async function vintageExport(db: Db, seriesId: number, which: number | 'latest', format: 'csv' | 'xlsx' | 'sdmx-csv'): Promise<ExportFile> {
-  const series = await getSeries(db, seriesId);
+  await getSeries(db, seriesId);
   const v = await resolveVintage(db, seriesId, which);
+  const series = await vintageMetadata(db, v.id);
   const obs = await observationsOf(db, v.id);
   const base = `${series.code}_v${v.number}`;
   if (format === 'sdmx-csv') {
@@ -88,6 +90,7 @@ export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx
 export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; id: number } | { slug: string }, format: 'csv' | 'xlsx'): Promise<ExportFile> {
   const ex = 'slug' in who ? await publicExhibit(deps, who.slug) : await getExhibit(deps, who.user, who.id);
   const snap = ex.snapshot ?? ('live' in ex ? ex.live : null);
+  const name = 'slug' in ex ? `exhibit-${ex.slug}` : `exhibit-${ex.id}-r${ex.revision}`;
   if (!snap) throw conflict('no_content', 'This exhibit has no data to download yet.');
   const aligned = alignByPeriod(snap.lines);
   const table: ExportTable = {
@@ -111,5 +114,5 @@ export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; 
       ['Caution', snap.caution],
     ],
   };
-  return buildExport(table, `exhibit-${ex.id}-r${ex.revision}`, format);
+  return buildExport(table, name, format);
 }

@@ -38,3 +38,12 @@ export interface StoredTask {
   items: RawItem[];
   output: BatchOutput;
 }
+
+/** One large decomposition (POST /decompose), computed and written as JSON off the request thread. */
+export interface SingleTask {
+  kind: 'single';
+  request: DecomposeRequest;
+}
+
+/** Its answer: the JSON body as UTF-8 bytes (moved to the main thread, not copied), or the analysis error. */
+export type SingleResult = { ok: true; body: Uint8Array } | { ok: false; error: { code: string; message: string; details?: unknown } };

@@ -8,7 +8,7 @@ import { finiteRecord } from '../lib/numbers.js';
 import { resolveItems } from '../services/batch-items.js';
 import { configureObservationCache } from '../services/catalogue/stored-values.js';
 import type { BatchSummaryItem } from '../schemas/decompose.js';
-import type { BatchItem, BatchTask, StoredTask } from './batch-types.js';
+import type { BatchItem, BatchTask, SingleResult, SingleTask, StoredTask } from './batch-types.js';
 
 export function runBatchChunk(task: BatchTask): string[] {
   return task.items.map((item) => {
@@ -52,6 +52,16 @@ export async function runStoredChunk(task: StoredTask): Promise<string[]> {
   runBatchChunk({ items: ready.map((w) => w.item as BatchItem), output: task.output }).forEach((r, k) => (results[ready[k].index] = r));
   for (const w of work) if ('error' in w.item) results[w.index] = JSON.stringify(w.item);
   return results;
+}
+
+/** One large decomposition: computed and serialized here, so the request thread only sends the bytes. */
+export function runSingle(task: SingleTask): SingleResult {
+  try {
+    return { ok: true, body: new TextEncoder().encode(JSON.stringify(toJsonResponse(decompose(task.request)))) };
+  } catch (error) {
+    if (error instanceof AnalysisError) return { ok: false, error: { code: error.code, message: error.message, ...(error.details === undefined ? {} : { details: error.details }) } };
+    throw error;
+  }
 }
 
 export default runBatchChunk;

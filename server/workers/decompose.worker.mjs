@@ -1,10 +1,16 @@
 // Worker-thread entry for batch decompositions. Plain JavaScript so that it loads in any host
 // (the server under tsx, or a test runner): it registers tsx, then loads the TypeScript task.
+import { move } from 'piscina';
 import { register } from 'tsx/esm/api';
 
 register();
-const { runBatchChunk, runStoredChunk } = await import('./decompose-task.ts');
+const { runBatchChunk, runSingle, runStoredChunk } = await import('./decompose-task.ts');
 
 export default function task(input) {
+  if (input.kind === 'single') {
+    const result = runSingle(input);
+    // The answer's bytes are moved to the main thread, not copied (piscina moves a returned value only).
+    return result.ok ? move(result.body) : result;
+  }
   return input.kind === 'stored' ? runStoredChunk(input) : runBatchChunk(input);
 }

@@ -5,10 +5,12 @@
 import os from 'node:os';
 import { fileURLToPath } from 'node:url';
 import { Piscina } from 'piscina';
-import type { BatchTask, StoredTask } from './batch-types.js';
+import type { BatchTask, SingleResult, SingleTask, StoredTask } from './batch-types.js';
 
 export interface AnalysisPool {
   run(task: BatchTask | StoredTask): Promise<string[]>;
+  /** One large decomposition, answered as JSON bytes. */
+  runSingle(task: SingleTask): Promise<SingleResult>;
   close(): Promise<void>;
   threads: number;
   /** Tasks queued or running (the shutdown waits for them). */
@@ -31,15 +33,17 @@ export function createAnalysisPool(threads: number): AnalysisPool {
       niceIncrement: 10,
     }));
   let active = 0;
+  const track = <T>(work: Promise<T>): Promise<T> => {
+    active++;
+    return work.finally(() => active--);
+  };
   return {
     threads: n,
     get active() {
       return active;
     },
-    run: (task) => {
-      active++;
-      return (get().run(task) as Promise<string[]>).finally(() => active--);
-    },
+    run: (task) => track(get().run(task) as Promise<string[]>),
+    runSingle: (task) => track(get().run(task) as Promise<SingleResult>),
     close: async () => {
       if (pool) await pool.destroy();
       pool = null;

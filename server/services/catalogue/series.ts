@@ -73,10 +73,18 @@ export async function updateSeries(db: Db, actorId: number, id: number, body: Pa
   if (body.source !== undefined) change.source = body.source;
   if (body.notes !== undefined) change.notes = body.notes;
   if (body.sdmxKey !== undefined) change.sdmx_key = body.sdmxKey || null;
+  // Every change is audited with what it was and what it became. Vintages keep the metadata they
+  // were loaded under (vintage_metadata), so old exports keep saying what they said.
+  const changes: Record<string, { from: unknown; to: unknown }> = {};
+  for (const [key, to] of Object.entries(body)) {
+    const from = (before as unknown as Record<string, unknown>)[key] ?? null;
+    const next = key === 'sdmxKey' ? to || null : (to ?? null);
+    if (to !== undefined && from !== next) changes[key] = { from, to: next };
+  }
   try {
     await transaction(db, async (trx) => {
       await trx('series').where('id', id).update({ ...change, updated_at: new Date() });
-      await audit(trx, { actorId, action: 'series.update', targetType: 'series', targetId: id, details: { fields: Object.keys(change) }, ip });
+      await audit(trx, { actorId, action: 'series.update', targetType: 'series', targetId: id, details: { code: before.code, changes }, ip });
     });
   } catch (error) {
     if ((error as { code?: string }).code === 'ER_DUP_ENTRY') throw conflict('duplicate_code', 'Another series already has this code or SDMX key.');

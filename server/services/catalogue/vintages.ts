@@ -48,3 +48,34 @@ export function checksumOf(periods: string[], values: (number | null)[]): string
   for (let i = 0; i < periods.length; i++) text += `${periods[i]},${values[i] === null ? '' : String(values[i])}\n`;
   return sha256(text);
 }
+
+/** The metadata a vintage was loaded under (code, title, frequency, unit, seasonal adjustment, source). */
+export interface VintageMetadata {
+  code: string;
+  title: string;
+  frequency: string;
+  unit: string;
+  seasonalAdjustment: string;
+  source: string;
+}
+
+/**
+ * Records, in the load's transaction, the series' metadata under which each vintage of the load
+ * was stored: later corrections of the series change what new exports say, never old ones.
+ */
+export async function keepVintageMetadata(trx: Knex.Transaction, loadId: number) {
+  await trx.raw(
+    `INSERT INTO vintage_metadata (vintage_id, code, title, frequency, unit, seasonal_adjustment, source)
+     SELECT v.id, s.code, s.title, s.frequency, s.unit, s.seasonal_adjustment, s.source FROM vintages v JOIN series s ON s.id = v.series_id WHERE v.load_id = ?`,
+    [loadId],
+  );
+}
+
+/** The metadata `vintageId` was loaded under (its series' current metadata if none was recorded). */
+export async function vintageMetadata(db: Db | Knex.Transaction, vintageId: number): Promise<VintageMetadata> {
+  const row =
+    (await db('vintage_metadata').where('vintage_id', vintageId).first()) ??
+    (await db('vintages as v').join('series as s', 's.id', 'v.series_id').where('v.id', vintageId).first('s.code', 's.title', 's.frequency', 's.unit', 's.seasonal_adjustment', 's.source'));
+  if (!row) throw notFound('The vintage');
+  return { code: row.code, title: row.title, frequency: row.frequency, unit: row.unit, seasonalAdjustment: row.seasonal_adjustment, source: row.source };
+}

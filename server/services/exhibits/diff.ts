@@ -1,8 +1,9 @@
 /** What changed between two revisions (snapshots) of an exhibit: text, study settings and data. */
-import { conflict, notFound } from '../../lib/errors.js';
+import { conflict, forbidden, notFound } from '../../lib/errors.js';
 import type { PublicUser } from '../../schemas/people.js';
 import type { ExhibitDiff, ExhibitDiffAnswer, Snapshot } from '../../schemas/exhibits.js';
 import { canSee, exhibitRow, latestRevision, type ExhibitDeps } from './read.js';
+import { seesReview } from './views.js';
 
 export function diffSnapshots(a: Snapshot | null, b: Snapshot, numbers: [number | null, number]): ExhibitDiff {
   const text: ExhibitDiff['text'] = [];
@@ -45,6 +46,8 @@ export function diffSnapshots(a: Snapshot | null, b: Snapshot, numbers: [number 
 export async function exhibitDiff(deps: ExhibitDeps, user: PublicUser, id: number): Promise<ExhibitDiffAnswer> {
   const row = await exhibitRow(deps.db, id);
   if (!canSee(user, row)) throw notFound('The exhibit');
+  // Earlier revisions may have been returned and never published: they are part of the review.
+  if (!seesReview(user, row)) throw forbidden('review_only', 'What changed between revisions is part of the review: its author, editors and administrators see it.');
   const current = await latestRevision(deps.db, id);
   if (!current) throw conflict('not_submitted', 'The exhibit has not been submitted yet, so there is no revision to compare.');
   const previous = current.number > 1 ? await latestRevision(deps.db, id, current.number - 1) : null;

@@ -1,7 +1,8 @@
 /**
  * Exhibits as people see them: who may see which (readers: published and withdrawn ones; authors:
- * their own; editors: all but others' drafts), one exhibit with its snapshot and events, the list,
- * and the public copy of a published exhibit.
+ * their own; editors: all but others' drafts), one exhibit with its snapshot and events (readers:
+ * its publication record, not its review — views.ts), the list, and the public copy of a
+ * published exhibit.
  */
 import type { Knex } from 'knex';
 import type { Config } from '../../config.js';
@@ -13,6 +14,7 @@ import type { Exhibit, ExhibitEvent, ExhibitState, ExhibitSummary, PublicExhibit
 import { getSettings } from '../settings.js';
 import { allowedMoves } from './moves.js';
 import { buildSnapshot } from './snapshots.js';
+import { publicCopy, readerView, seesReview } from './views.js';
 
 export interface ExhibitDeps {
   db: Db;
@@ -81,7 +83,7 @@ export async function getExhibit(deps: ExhibitDeps, user: PublicUser, id: number
   const editable = (row.status === 'draft' || row.status === 'returned') && row.author_id === user.id;
   // A draft (or a returned exhibit being reworked) shows its live content; otherwise the frozen snapshot.
   const live = editable || (!revision && row.author_id === user.id) ? await buildSnapshot(db, user, row, false).catch((e) => (e instanceof HttpError ? null : Promise.reject(e))) : null;
-  return {
+  const exhibit: Exhibit = {
     ...summary(row),
     snapshot: revision?.snapshot ?? null,
     snapshotChecksum: revision?.checksum ?? null,
@@ -91,6 +93,7 @@ export async function getExhibit(deps: ExhibitDeps, user: PublicUser, id: number
     editable,
     publicUrl: row.status === 'published' && settings.publicExhibitLinks && row.public_slug ? `${deps.config.publicOrigin}/p/${row.public_slug}` : null,
   };
+  return seesReview(user, row) ? exhibit : readerView(exhibit);
 }
 
 export async function listExhibits(db: Db, user: PublicUser, filter: { status?: string; mine?: boolean }): Promise<ExhibitSummary[]> {
@@ -102,8 +105,8 @@ export async function listExhibits(db: Db, user: PublicUser, filter: { status?: 
 }
 export async function publicExhibit(deps: ExhibitDeps, slug: string): Promise<PublicExhibit> {
   const settings = await getSettings(deps.db);
-  const row = await deps.db('exhibits as e').join('users as u', 'u.id', 'e.author_id').where('e.public_slug', slug).first('e.*', 'u.name as author_name');
+  const row = await deps.db('exhibits as e').where('e.public_slug', slug).first('e.*');
   if (!settings.publicExhibitLinks || !row || row.status !== 'published') throw notFound('The published exhibit');
   const revision = await latestRevision(deps.db, row.id);
-  return { ...summary(row), snapshot: revision!.snapshot, snapshotChecksum: revision!.checksum, events: [] };
+  return publicCopy(row, revision!.snapshot);
 }

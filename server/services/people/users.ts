@@ -77,6 +77,8 @@ export async function updateUser(deps: PeopleDeps, actor: PublicUser, id: number
       if (change.status === 'deactivated') {
         await trx('sessions').where('user_id', id).delete();
         await trx('api_tokens').where('user_id', id).whereNull('revoked_at').update({ revoked_at: new Date() });
+        // Reset links sent before stay dead, even if the account is reactivated later.
+        await trx('password_resets').where('user_id', id).whereNull('used_at').whereNull('revoked_at').update({ revoked_at: new Date() });
       }
       await audit(trx, { actorId: actor.id, action: change.status === 'deactivated' ? 'user.deactivate' : 'user.reactivate', targetType: 'user', targetId: id, ip });
     }

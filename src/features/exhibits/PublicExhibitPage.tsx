@@ -27,7 +27,7 @@ export function PublicExhibitPage() {
         {ex.data?.snapshot && (
           <div className="space-y-3">
             <ExhibitFigure snapshot={ex.data.snapshot} titleLevel={1} />
-            <ExhibitDownloads snapshot={ex.data.snapshot} dataUrl={`/public/exhibits/${slug}/data`} name={`exhibit-${ex.data.id}`} />
+            <ExhibitDownloads snapshot={ex.data.snapshot} dataUrl={`/public/exhibits/${slug}/data`} name={`exhibit-${ex.data.slug}`} />
           </div>
         )}
       </main>

@@ -1,6 +1,6 @@
 import { useHealth } from './api';
 
-/** The footer status line: server and database reachability, read from /api/v1/health. */
+/** The footer status line: server and database reachability, read from /api/v1/health (versions: administrators only, as the server answers them). */
 export function StatusLine() {
   const health = useHealth();
   let tone = 'bg-hairline-strong';
@@ -11,7 +11,8 @@ export function StatusLine() {
   } else if (health.data) {
     if (health.data.db.ok) {
       tone = 'bg-ok';
-      text = `Server and database online · MariaDB ${health.data.db.version?.split('-')[0] ?? ''} · Tidegauge ${health.data.version}`;
+      const versions = [health.data.db.version ? `MariaDB ${health.data.db.version.split('-')[0]}` : '', health.data.version ? `Tidegauge ${health.data.version}` : ''].filter(Boolean);
+      text = ['Server and database online', ...versions].join(' · ');
     } else {
       tone = 'bg-alert';
       text = 'Database unreachable: reading and saving will fail until it is back.';

@@ -2,7 +2,9 @@ import { useQuery } from '@tanstack/react-query';
 
 export interface Health {
   status: 'ok' | 'unavailable';
-  version: string;
+  /** The software's version: present for signed-in administrators only. */
+  version?: string;
+  /** `version`: the database's, for signed-in administrators only. */
   db: { ok: boolean; version?: string };
 }
 

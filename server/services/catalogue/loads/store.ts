@@ -8,6 +8,7 @@ import type { Progress } from '../../../lib/stream.js';
 import type { LoadFields, LoadSummary, StoredLoadVintage } from '../../../schemas/catalogue.js';
 import { audit } from '../../audit.js';
 import { iso } from '../rows.js';
+import { keepVintageMetadata } from '../vintages.js';
 import { allProblems, type CheckedLoad } from './preview.js';
 import { transaction } from '../../../lib/retry.js';
 
@@ -91,6 +92,7 @@ export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, f
       }
       out.push({ seriesId: c.series!.id, code: c.series!.code, number, asOf, rowCount: c.rowCount, checksum: c.checksum! });
     }
+    await keepVintageMetadata(trx, loadId);
     await audit(trx, { actorId, action: 'load.store', targetType: 'load', targetId: loadId, details: { filename: preview.filename, vintages: out.map((o) => `${o.code}#${o.number}`).slice(0, 50), count: out.length }, ip });
     return { loadId, vintages: out };
   });

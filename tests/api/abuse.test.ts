@@ -1,0 +1,247 @@
+/**
+ * Abuse of compute, logs, versions and the fake mail server (issue 17): large decompositions run
+ * off the request thread under a per-account budget; a request the library cannot solve is a 4xx;
+ * logs never keep invitation or reset secrets; a missing asset is a 404; only administrators see
+ * versions; the fake mail server never sends to a port someone else holds.
+ */
+import { spawn } from 'node:child_process';
+import fs from 'node:fs';
+import net from 'node:net';
+import os from 'node:os';
+import path from 'node:path';
+import { Writable } from 'node:stream';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { decompose } from '../../server/analysis/index.js';
+import { decomposeWith } from '../../server/analysis/decompose.js';
+import { SingularSystemError } from '../../server/analysis/banded.js';
+import { hp } from '../../server/analysis/methods/hp.js';
+import { createApp } from '../../server/app.js';
+import { createLogger } from '../../server/lib/logger.js';
+import { seedDemo } from '../../seeds/demo.js';
+import { listen, makeTestApp, type TestApp } from '../helpers/app.js';
+import { createTestDb } from '../helpers/db.js';
+import { signedIn } from '../helpers/session.js';
+
+const root = path.resolve(import.meta.dirname, '..', '..');
+const MILLION = 1_000_000;
+const wavy = (n: number) => Array.from({ length: n }, (_, i) => 100 + 0.01 * i + 3 * Math.sin(i / 20) + Math.cos(i * 1.7));
+
+let t: TestApp;
+beforeAll(async () => {
+  t = await makeTestApp({}, { seedDemo: true });
+});
+afterAll(async () => {
+  await t.close();
+});
+
+const tokenOf = async (email: string) => (await (await signedIn(t, email)).post('/api/v1/tokens').send({ name: 'abuse' }).expect(201)).body.token as string;
+
+describe('large decompositions', () => {
+  it('run off the request thread: a health probe sent while 1 000 000 values are decomposed is answered first', async () => {
+    const { server, url } = await listen(t.app);
+    try {
+      const token = await tokenOf('economist@demo.test');
+      const body = JSON.stringify({ frequency: 'M', values: wavy(MILLION), method: 'christiano-fitzgerald' });
+      const order: string[] = [];
+      const big = fetch(`${url}/api/v1/decompose`, { method: 'POST', headers: { Authorization: `Bearer ${token}`, 'Content-Type': 'application/json' }, body }).then((r) => {
+        order.push('decompose');
+        return r;
+      });
+      // The body is read and the work started; then a probe. On the request thread the probe
+      // would wait for the whole computation (seconds); off it, it is answered at once.
+      await new Promise((r) => setTimeout(r, 700));
+      const probe = await fetch(`${url}/api/v1/health`);
+      order.push('health');
+      expect(probe.status).toBe(200);
+      const res = await big;
+      expect(res.status).toBe(200);
+      expect(order).toEqual(['health', 'decompose']);
+      const answer = await res.json();
+      expect(answer.cycle).toHaveLength(MILLION);
+      expect(answer.method).toBe('christiano-fitzgerald');
+    } finally {
+      server.close();
+    }
+  }, 120_000);
+
+  it('answer the same numbers as the library', async () => {
+    const agent = await signedIn(t, 'economist@demo.test');
+    const values = wavy(150_000);
+    const res = await agent.post('/api/v1/decompose').send({ frequency: 'M', values, method: 'hp', params: { lambda: 14400 } }).expect(200);
+    const lib = decompose({ frequency: 'M', values, method: 'hp', params: { lambda: 14400 } });
+    expect(res.headers['content-type']).toMatch(/application\/json/);
+    expect(res.body.params).toEqual({ lambda: 14400 });
+    for (const i of [0, 1, 77_777, 149_999]) expect(res.body.trend[i]).toBe(lib.trend[i]);
+    expect(res.body.warnings).toEqual(lib.warnings);
+  }, 60_000);
+
+  it('are limited per account: beyond the budget, 429 with Retry-After; other accounts go on', async () => {
+    const small = await makeTestApp({ HEAVY_UNITS_PER_MINUTE: '11' }, { seedDemo: true });
+    try {
+      const a = await signedIn(small, 'economist@demo.test');
+      const b = await signedIn(small, 'viewer@demo.test');
+      const body = { frequency: 'M', values: wavy(MILLION), method: 'hp' };
+      await a.post('/api/v1/decompose').send(body).expect(200);
+      const refused = await a.post('/api/v1/decompose').send(body).expect(429);
+      expect(refused.body.error.code).toBe('too_many_heavy_requests');
+      expect(Number(refused.headers['retry-after'])).toBeGreaterThan(0);
+      expect(Number(refused.headers['retry-after'])).toBeLessThanOrEqual(60);
+      // A large batch counts too; a small request is never counted.
+      const batch = await a.post('/api/v1/decompose/batch').send({ items: Array.from({ length: 3 }, () => ({ frequency: 'M', values: wavy(50_000), method: 'hp' })) }).expect(429);
+      expect(batch.body.error.code).toBe('too_many_heavy_requests');
+      await a.post('/api/v1/decompose').send({ frequency: 'Q', values: wavy(200), method: 'hp' }).expect(200);
+      await b.post('/api/v1/decompose').send(body).expect(200);
+    } finally {
+      await small.close();
+    }
+  }, 120_000);
+
+  it('a request the library cannot solve is a 4xx that says what to change (ℓ1 trend on 200 000 values)', async () => {
+    const agent = await signedIn(t, 'economist@demo.test');
+    const res = await agent.post('/api/v1/decompose').send({ frequency: 'M', values: wavy(200_000), method: 'l1-trend', params: { lambda: 10 } }).expect(400);
+    expect(res.body.error.code).toBe('series_too_long');
+    expect(res.body.error.message).toMatch(/at most 100,000 observations/);
+    expect(res.body.error.message).toMatch(/Hodrick–Prescott/);
+  }, 60_000);
+
+  it('a linear system the solver cannot factor is refused as bad input, whatever the method', () => {
+    const failing = { ...hp, run: () => { throw new SingularSystemError(41); } };
+    let caught: unknown;
+    try {
+      decomposeWith(failing as never, { frequency: 'Q', values: wavy(100), method: 'hp' });
+    } catch (error) {
+      caught = error;
+    }
+    expect((caught as { code?: string }).code).toBe('unsolvable');
+    expect((caught as Error).message).toMatch(/shorter series, a smaller smoothing parameter, or another method/);
+  });
+});
+
+/** An app that logs at info level into memory, serving a small built client from `staticDir`. */
+function loggingApp(staticDir: string) {
+  let text = '';
+  const sink = new Writable({
+    write(chunk, _enc, done) {
+      text += chunk.toString();
+      done();
+    },
+  });
+  const config = { ...t.config, logLevel: 'info', staticDir };
+  const app = createApp({ config, db: t.db, logger: createLogger('info', sink), mailbox: t.mail });
+  return { app, log: () => text };
+}
+
+describe('logs and static files', () => {
+  let staticDir: string;
+  beforeAll(() => {
+    staticDir = fs.mkdtempSync(path.join(os.tmpdir(), 'tg-static-'));
+    fs.mkdirSync(path.join(staticDir, 'assets'));
+    fs.writeFileSync(path.join(staticDir, 'index.html'), '<!doctype html><title>Tidegauge</title>');
+    fs.writeFileSync(path.join(staticDir, 'assets', 'app.js'), 'console.log(1)');
+  });
+  afterAll(() => fs.rmSync(staticDir, { recursive: true, force: true }));
+
+  it('never keep the secret of an invitation or a reset link', async () => {
+    const { app, log } = loggingApp(staticDir);
+    try {
+      const secrets = ['inviteSecret1234567890', 'resetSecret1234567890', 'lookupSecret1234567890', 'querySecret1234567890'];
+      await request(app).get(`/invite/${secrets[0]}`).expect(200);
+      await request(app).get(`/reset-password/${secrets[1]}`).expect(200);
+      await request(app).get(`/api/v1/invitations/lookup/${secrets[2]}`);
+      await request(app).get(`/reset-password?token=${secrets[3]}`).expect(200);
+      const text = log();
+      expect(text).toMatch(/\/invite\/\[redacted\]/);
+      expect(text).toMatch(/invitations\/lookup\/\[redacted\]/);
+      for (const s of secrets) expect(text).not.toContain(s);
+    } finally {
+      await app.locals.shutdown();
+    }
+  });
+
+  it('answer a missing asset with 404, logging no error and no filesystem path', async () => {
+    const { app, log } = loggingApp(staticDir);
+    try {
+      await request(app).get('/assets/app.js').expect(200);
+      const res = await request(app).get('/assets/index-deadbeef.js').expect(404);
+      expect(res.text).not.toContain(staticDir);
+      expect(log()).not.toContain(staticDir);
+      expect(log()).not.toMatch(/"level":50/);
+    } finally {
+      await app.locals.shutdown();
+    }
+  });
+});
+
+describe('versions', () => {
+  it('are shown by /health to signed-in administrators only', async () => {
+    const anon = (await request(t.app).get('/api/v1/health').expect(200)).body;
+    expect(anon).toEqual({ status: 'ok', db: { ok: true } });
+    for (const role of ['viewer', 'steward', 'economist', 'editor']) {
+      const body = (await (await signedIn(t, `${role}@demo.test`)).get('/api/v1/health').expect(200)).body;
+      expect(body.version, role).toBeUndefined();
+      expect(body.db.version, role).toBeUndefined();
+    }
+    const admin = (await (await signedIn(t, 'admin@demo.test')).get('/api/v1/health').expect(200)).body;
+    expect(admin.version).toMatch(/^\d+\.\d+\.\d+/);
+    expect(admin.db.version).toMatch(/MariaDB/);
+    const byToken = (await request(t.app).get('/api/v1/health').set('Authorization', `Bearer ${await tokenOf('admin@demo.test')}`).expect(200)).body;
+    expect(byToken.db.version).toMatch(/MariaDB/);
+    // The OpenAPI document names the API's version, not the software's.
+    expect((await request(t.app).get('/api/v1/openapi.json').expect(200)).body.info.version).toBe('1');
+  });
+});
+
+describe('the fake mail server', () => {
+  it('takes a free port when its own is taken, says which, and never mails whoever holds the port', async () => {
+    // Someone else listens on the configured port and notes every connection.
+    const connections: string[] = [];
+    const squatter = net.createServer((socket) => {
+      connections.push('connected');
+      socket.destroy();
+    });
+    await new Promise<void>((r) => squatter.listen(0, '127.0.0.1', () => r()));
+    const taken = (squatter.address() as net.AddressInfo).port;
+    const db = await createTestDb();
+    await seedDemo(db.db, { onlyIfEmpty: false });
+    const appPort = await new Promise<number>((resolve) => {
+      const s = net.createServer().listen(0, '127.0.0.1', () => {
+        const p = (s.address() as net.AddressInfo).port;
+        s.close(() => resolve(p));
+      });
+    });
+    const base = `http://127.0.0.1:${appPort}`;
+    let out = '';
+    const child = spawn(process.execPath, ['--import', 'tsx', path.join(root, 'server', 'main.ts')], {
+      cwd: root,
+      env: { ...process.env, DATABASE_URL: db.url, PORT: String(appPort), NODE_ENV: 'test', MAIL_MODE: 'fake', FAKE_SMTP_PORT: String(taken), LOG_LEVEL: 'warn', PUBLIC_ORIGIN: base },
+      stdio: ['ignore', 'pipe', 'pipe'],
+    });
+    child.stdout!.on('data', (c) => (out += c));
+    child.stderr!.on('data', (c) => (out += c));
+    try {
+      const deadline = Date.now() + 30_000;
+      while (Date.now() < deadline && !(await fetch(`${base}/api/v1/health`).then((r) => r.ok, () => false))) await new Promise((r) => setTimeout(r, 200));
+      const said = new RegExp(`Port ${taken} \\(FAKE_SMTP_PORT\\) is taken.*listens on 127\\.0\\.0\\.1:(\\d+)`).exec(out);
+      expect(said, out).not.toBeNull();
+      expect(Number(said![1])).not.toBe(taken);
+      // A reset mail goes to the fake server the app really runs, and reaches the Mailbox.
+      await fetch(`${base}/api/v1/auth/password-reset`, { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email: 'viewer@demo.test' }) });
+      const signIn = await fetch(`${base}/api/v1/auth/sign-in`, { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email: 'admin@demo.test', password: 'tidegauge-demo' }) });
+      const cookie = signIn.headers.get('set-cookie')!.split(';')[0];
+      let found = false;
+      for (let i = 0; i < 50 && !found; i++) {
+        const box = await (await fetch(`${base}/api/v1/dev/mailbox`, { headers: { Cookie: cookie } })).json();
+        found = box.items.some((m: { to: string[] }) => m.to.includes('viewer@demo.test'));
+        if (!found) await new Promise((r) => setTimeout(r, 200));
+      }
+      expect(found).toBe(true);
+      expect(connections).toEqual([]);
+    } finally {
+      child.kill('SIGTERM');
+      await new Promise((r) => child.once('exit', r));
+      squatter.close();
+      await db.drop();
+    }
+  }, 90_000);
+});
