@@ -2,20 +2,24 @@
  * Files out: CSV, XLSX (exceljs) and SDMX-CSV. Every text cell of every export goes through one
  * guard, `safeText`: a cell that a spreadsheet would run as a formula (its first character, after
  * any spaces, is =, +, -, @, a tab, a carriage return, or the full-width ＝ ＋ － ＠) gets a leading
- * apostrophe, the common practice against formula injection (OWASP, "CSV Injection"). In CSV,
- * `csvField` / `csvLine` quote a text field by RFC 4180 (in double quotes, quotes doubled) when it
- * holds a comma, quote or line break — and also a ";", a tab or edge spaces, so that a spreadsheet
- * splitting on ";" or tabs (many European locales) never cuts "pct;=1+1" into a second cell that
- * starts a formula. Numbers are written bare. Other CSV writers (SDMX-CSV out, the History table)
- * write their rows with `csvLine`.
+ * apostrophe, the common practice against formula injection (OWASP, "CSV Injection"). A
+ * spreadsheet in a locale that splits on ";" (or a tab) reads a comma-separated line as one field
+ * until the next ";", quotes or not: so a formula start right after a ";" or a tab inside a text
+ * gets the apostrophe too ("pct;=1+1" → "pct;'=1+1"). In CSV, `csvField` / `csvLine` quote a text
+ * field by RFC 4180 (in double quotes, quotes doubled) when it holds a comma, quote or line break,
+ * a ";", a tab or edge spaces. Numbers are written bare. Other CSV writers (SDMX-CSV out, the
+ * History table) write their rows with `csvLine`.
  */
 import ExcelJS from 'exceljs';
 
 const FORMULA_START = /^[\s\u00a0]*[=+\-@\t\r\uff1d\uff0b\uff0d\uff20]/;
 
+/** A formula start right after a ";" or a tab inside a text: a cell of its own where a spreadsheet splits there. */
+const FORMULA_INSIDE = /([;\t])(?=[\s\u00a0]*[=+\-@\uff1d\uff0b\uff0d\uff20])/g;
+
 /** The formula guard for one text cell (CSV, XLSX, SDMX-CSV). */
 export function safeText(value: string | null | undefined): string {
-  const s = value ?? '';
+  const s = (value ?? '').replace(FORMULA_INSIDE, "$1'");
   return FORMULA_START.test(s) ? `'${s}` : s;
 }
 

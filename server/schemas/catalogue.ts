@@ -30,7 +30,12 @@ export const createSeriesSchema = z.object({
 export type CreateSeriesBody = z.infer<typeof createSeriesSchema>;
 
 /** Metadata can be corrected, except the frequency once a vintage exists (the checks depend on it). */
-export const updateSeriesSchema = createSeriesSchema.partial().refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
+// No defaults here: a field left out stays as it is (the create schema's default source of '' would
+// otherwise wipe the source at every correction).
+export const updateSeriesSchema = createSeriesSchema
+  .extend({ source: z.string().trim().max(300, 'The source has at most 300 characters.') })
+  .partial()
+  .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
 
 export const loadFieldsSchema = z.object({
   note: z.string().max(2000, 'The note has at most 2000 characters.').optional(),
