@@ -68,7 +68,7 @@ export const PAGES = [
   { path: '/review', access: ACCESS.review, api: ['GET /api/v1/review'], nav: 'Review desk' },
   { path: '/people', access: ACCESS.people, api: ['GET /api/v1/users', 'GET /api/v1/invitations', 'GET /api/v1/audit', 'GET /api/v1/settings'], nav: 'People' },
   { path: '/people/mailbox', access: ACCESS.people, api: ['GET /api/v1/dev/mailbox'] },
-  { path: '/profile', access: 'signedIn', api: ['GET /api/v1/tokens', 'POST /api/v1/tokens'] },
+  { path: '/profile', access: 'signedIn', api: ['GET /api/v1/tokens', 'POST /api/v1/tokens', 'POST /api/v1/auth/password'] },
 ] as const satisfies readonly Page[];
 
 export type PagePath = (typeof PAGES)[number]['path'];

@@ -17,6 +17,8 @@ const PUBLIC = 'public' as const;
 const STEWARDS: Role[] = ['steward', 'admin'];
 // Economists, editors and administrators read studies; stewards and readers do not.
 const STUDY_READERS: Role[] = ['economist', 'editor', 'admin'];
+// An exhibit's review (comments, earlier revisions): its author, editors and administrators.
+const REVIEW_RECORD: Role[] = ['economist', 'editor', 'admin'];
 
 interface Row {
   route: string; // "METHOD /api/v1/path" exactly as registered
@@ -34,6 +36,8 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/auth/me', allow: SIGNED_IN },
   { route: 'POST /api/v1/auth/password-reset', body: {}, allow: PUBLIC },
   { route: 'POST /api/v1/auth/password-reset/complete', body: {}, allow: PUBLIC },
+  // Access and abuse (issue 17): changing one's password.
+  { route: 'POST /api/v1/auth/password', body: {}, allow: SIGNED_IN },
   { route: 'GET /api/v1/invitations/lookup/:token', path: '/api/v1/invitations/lookup/nothing-here', allow: PUBLIC },
   { route: 'POST /api/v1/invitations/accept', body: {}, allow: PUBLIC },
   { route: 'GET /api/v1/users', allow: ['admin'] },
@@ -104,7 +108,8 @@ export const MATRIX: Row[] = [
   { route: 'PATCH /api/v1/exhibits/:id', path: '/api/v1/exhibits/999999', body: { title: 'x' }, allow: ['economist'] },
   { route: 'DELETE /api/v1/exhibits/:id', path: '/api/v1/exhibits/999999', allow: ['economist'] },
   { route: 'POST /api/v1/exhibits/:id/transitions', path: '/api/v1/exhibits/999999/transitions', body: {}, allow: SIGNED_IN },
-  { route: 'GET /api/v1/exhibits/:id/diff', path: '/api/v1/exhibits/999999/diff', allow: SIGNED_IN },
+  // Access and abuse (issue 17): what changed between revisions is review (per person: the author, editors, administrators).
+  { route: 'GET /api/v1/exhibits/:id/diff', path: '/api/v1/exhibits/999999/diff', allow: REVIEW_RECORD },
   { route: 'GET /api/v1/exhibits/:id/data', path: '/api/v1/exhibits/999999/data', allow: SIGNED_IN },
   { route: 'GET /api/v1/review', allow: ['editor'] },
   { route: 'GET /api/v1/public/exhibits/:slug', path: '/api/v1/public/exhibits/nothing', allow: PUBLIC },
@@ -181,4 +186,133 @@ describe('role matrix', () => {
       }
     });
   }
+});
+
+// ---------------------------------------------------------------------------------------------
+// Access and abuse (issue 17): the reading rule, asserted for every route that reads.
+//
+// Work that is not published reaches only those the rule lets read it: economists, editors and
+// administrators read studies; an exhibit's author, editors and administrators read its drafts,
+// its review and its comments; a private board is its owner's; readers see what is published or
+// on a board shared with them. Canary texts are planted in each kind of unpublished work, every
+// route that reads (GET, and the POSTs that only compute) is called by every identity on the
+// objects that hold them, and each canary must turn up for exactly the roles the rule names —
+// never for anyone else, and never on a public route.
+
+/** Writes that only read: they compute from stored work and change nothing. */
+const READING_POSTS = new Set(['POST /api/v1/studies/:id/realtime', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'POST /api/v1/decompose', 'POST /api/v1/decompose/batch']);
+
+interface Canary {
+  text: string;
+  /** The demo roles whose accounts may read it (the demo economist is the author and owner of everything below). */
+  readers: readonly Role[];
+}
+
+const CANARY = {
+  studyTitle: { text: 'CANARY study title', readers: STUDY_READERS },
+  studyNotes: { text: 'CANARY study notes', readers: STUDY_READERS },
+  privateBoard: { text: 'CANARY private board', readers: ['economist'] },
+  privatePanel: { text: 'CANARY private panel', readers: ['economist'] },
+  draft: { text: 'CANARY draft exhibit', readers: ['economist', 'admin'] },
+  inReview: { text: 'CANARY exhibit in review', readers: REVIEW_RECORD },
+  returnComment: { text: 'CANARY return comment', readers: REVIEW_RECORD },
+  approvalComment: { text: 'CANARY approval comment', readers: REVIEW_RECORD },
+  returnedRevision: { text: 'CANARY subtitle of a returned revision', readers: REVIEW_RECORD },
+} satisfies Record<string, Canary>;
+
+describe('the reading rule (issue 17): unpublished work reaches only those who may read it', () => {
+  const ids = { study: 0, board: 0, panel: 0, series: 0, slug: '', exhibits: [] as number[] };
+  const as = (who: Role) => ({ Authorization: `Bearer ${tokens[who]}` });
+  const call = (method: string, path: string, who: Who, body?: unknown) => {
+    let req = request(t.app)[method.toLowerCase() as 'get'](path);
+    if (who !== 'anon') req = req.set('Authorization', `Bearer ${tokens[who]}`);
+    req = req.buffer(true).parse((res, cb) => {
+      let text = '';
+      res.setEncoding('utf8');
+      res.on('data', (c: string) => (text += c));
+      res.on('end', () => cb(null, text));
+    });
+    return body !== undefined ? req.send(body as object) : req;
+  };
+
+  beforeAll(async () => {
+    const econ = as('economist');
+    const post = (path: string, body: object, who: Role = 'economist') => request(t.app).post(path).set(as(who)).send(body);
+    const move = (id: number, to: string, who: Role, comment?: string) => post(`/api/v1/exhibits/${id}/transitions`, { to, ...(comment ? { comment } : {}) }, who).expect(200);
+    ids.series = (await t.db('series').where('code', 'EST_GDP_REAL').first()).id;
+    ids.study = (await post('/api/v1/studies', { title: CANARY.studyTitle.text, notes: CANARY.studyNotes.text, seriesId: ids.series, vintage: 'latest', transform: 'log100', method: 'hp', params: { lambda: 1600 } }).expect(201)).body.id;
+    ids.board = (await post('/api/v1/boards', { title: CANARY.privateBoard.text, visibility: 'private' }).expect(201)).body.id;
+    ids.panel = (await post(`/api/v1/boards/${ids.board}/panels`, { title: CANARY.privatePanel.text, studyIds: [ids.study] }).expect(201)).body.id;
+    const exhibit = async (title: string, subtitle?: string) => (await post('/api/v1/exhibits', { studyId: ids.study, title, ...(subtitle ? { subtitle } : {}) }).expect(201)).body.id as number;
+    const draft = await exhibit(CANARY.draft.text);
+    const inReview = await exhibit(CANARY.inReview.text);
+    await move(inReview, 'in_review', 'economist');
+    const published = await exhibit('A published exhibit', CANARY.returnedRevision.text);
+    await move(published, 'in_review', 'economist');
+    await move(published, 'returned', 'editor', CANARY.returnComment.text);
+    await request(t.app).patch(`/api/v1/exhibits/${published}`).set(econ).send({ subtitle: 'The subtitle as published' }).expect(200);
+    await move(published, 'in_review', 'economist');
+    await move(published, 'approved', 'editor', CANARY.approvalComment.text);
+    await move(published, 'published', 'editor');
+    ids.exhibits = [draft, inReview, published];
+    ids.slug = (await t.db('exhibits').where('id', published).first()).public_slug;
+    await request(t.app).put('/api/v1/settings').set(as('admin')).send({ publicExhibitLinks: true }).expect(200);
+  }, 120_000);
+  afterAll(async () => {
+    await request(t.app).put('/api/v1/settings').set(as('admin')).send({ publicExhibitLinks: false });
+  });
+
+  /** The paths of a route on the objects holding the canaries (a row's own path where it names none). */
+  function canaryPaths(row: Row): string[] {
+    const [, registered] = row.route.split(' ');
+    if (!registered.includes(':')) return [row.path ?? registered];
+    const values: Record<string, string[]> = registered.startsWith('/api/v1/studies/')
+      ? { id: [String(ids.study)] }
+      : registered.startsWith('/api/v1/boards/')
+        ? { id: [String(ids.board)], panelId: [String(ids.panel)] }
+        : registered.startsWith('/api/v1/exhibits/')
+          ? { id: ids.exhibits.map(String) }
+          : registered.startsWith('/api/v1/public/exhibits/')
+            ? { slug: [ids.slug] }
+            : registered.startsWith('/api/v1/series/')
+              ? { id: [String(ids.series)], number: ['1'] }
+              : {};
+    let paths = [registered];
+    for (const [name] of registered.matchAll(/:(\w+)/g)) {
+      const key = name.slice(1);
+      if (!values[key]) return [row.path!];
+      paths = paths.flatMap((p) => values[key].map((v) => p.replace(name, v)));
+    }
+    return paths;
+  }
+
+  const readingRows = MATRIX.filter((r) => r.route.startsWith('GET ') || READING_POSTS.has(r.route));
+
+  it('every reading route is scanned (the list of reading POSTs names real routes)', () => {
+    const registered = new Set(t.app.locals.routes.map((r) => `${r.method.toUpperCase()} ${r.fullPath}`));
+    for (const r of READING_POSTS) expect(registered.has(r), r).toBe(true);
+    expect(readingRows.length).toBeGreaterThan(40);
+  });
+
+  it('each canary reaches exactly the roles the rule names, through any route, and no public answer', async () => {
+    const seenBy = new Map<string, Set<Who>>(Object.values(CANARY).map((c) => [c.text, new Set<Who>()]));
+    for (const row of readingRows) {
+      const [method] = row.route.split(' ');
+      const body = row.route === 'POST /api/v1/studies/:id/realtime' ? undefined : row.body;
+      for (const path of canaryPaths(row)) {
+        for (const who of ['anon', ...ALL] as Who[]) {
+          const res = await call(method, path, who, body);
+          expect(res.status, `${method} ${path} as ${who}`).toBeLessThan(500);
+          const text = String(res.body ?? '');
+          for (const c of Object.values(CANARY)) {
+            if (!text.includes(c.text)) continue;
+            seenBy.get(c.text)!.add(who);
+            const label = `${method} ${path} as ${who} shows “${c.text}”`;
+            expect((c.readers as readonly Who[]).includes(who), label).toBe(true);
+          }
+        }
+      }
+    }
+    for (const c of Object.values(CANARY)) expect([...seenBy.get(c.text)!].sort(), c.text).toEqual([...c.readers].sort());
+  }, 300_000);
 });

@@ -20,9 +20,10 @@ export function publicationRecord(events: ExhibitEvent[]): ExhibitEvent[] {
   return events.filter((e) => PUBLICATION.has(e.to)).map((e) => ({ ...e, comment: e.to === 'withdrawn' ? e.comment : null }));
 }
 
-/** An exhibit as a reader (not its author, an editor or an administrator) sees it. */
+/** An exhibit as a reader (not its author, an editor or an administrator) sees it: no review, no study's internal title. */
 export function readerView(exhibit: Exhibit): Exhibit {
-  return { ...exhibit, events: publicationRecord(exhibit.events), moves: [], live: null };
+  const snapshot = exhibit.snapshot && { ...exhibit.snapshot, studies: exhibit.snapshot.studies.map((s) => ({ ...s, title: '' })) };
+  return { ...exhibit, snapshot, events: publicationRecord(exhibit.events), moves: [], live: null };
 }
 
 /** The figure's content only: no series or study records (ids, internal titles, checksums) and no notes. */

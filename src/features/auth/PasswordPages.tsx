@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { emailSchema, newPasswordSchema } from '@schemas/people';
 import { ErrorNote, Field } from '@/components/ui';
 import { AuthFrame } from './AuthFrame';
+import { RevokeTokensChoice } from './RevokeTokensChoice';
 import { useCompleteReset, useRequestReset } from './api';
 
 export function ForgotPasswordPage() {
@@ -34,22 +35,24 @@ export function ForgotPasswordPage() {
   );
 }
 
-const resetSchema = z.object({ password: newPasswordSchema, confirm: z.string() }).refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
+const resetSchema = z.object({ password: newPasswordSchema, confirm: z.string(), revokeTokens: z.boolean() }).refine((v) => v.password === v.confirm, { message: 'The two passwords differ.', path: ['confirm'] });
 
 export function ResetPasswordPage() {
   const { token = '' } = useParams();
   const complete = useCompleteReset();
   const navigate = useNavigate();
-  const form = useForm<z.infer<typeof resetSchema>>({ resolver: zodResolver(resetSchema), defaultValues: { password: '', confirm: '' } });
+  const form = useForm<z.infer<typeof resetSchema>>({ resolver: zodResolver(resetSchema), defaultValues: { password: '', confirm: '', revokeTokens: true } });
   return (
     <AuthFrame title="Choose a new password">
-      <form noValidate className="space-y-4" onSubmit={form.handleSubmit((v) => complete.mutate({ token, password: v.password }, { onSuccess: () => navigate('/', { replace: true }) }))}>
+      <form noValidate className="space-y-4" onSubmit={form.handleSubmit((v) => complete.mutate({ token, password: v.password, revokeTokens: v.revokeTokens }, { onSuccess: () => navigate('/', { replace: true }) }))}>
         <Field label="New password" htmlFor="password" error={form.formState.errors.password?.message} hint="At least 10 characters.">
           <input id="password" type="password" className="field" autoComplete="new-password" autoFocus {...form.register('password')} />
         </Field>
         <Field label="New password again" htmlFor="confirm" error={form.formState.errors.confirm?.message}>
           <input id="confirm" type="password" className="field" autoComplete="new-password" {...form.register('confirm')} />
         </Field>
+        <RevokeTokensChoice id="revoke-tokens" field={form.register('revokeTokens')} />
+        <p className="text-xs text-ink-faint">Every other session of yours ends, and older reset links stop working.</p>
         <ErrorNote error={complete.error} />
         <button className="btn w-full justify-center" disabled={complete.isPending}>
           Set the password and sign in

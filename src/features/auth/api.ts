@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api, ApiError } from '@/lib/api';
-import type { SignInBody } from '@schemas/auth';
+import type { ChangePasswordBody, SignInBody } from '@schemas/auth';
 import type { AcceptInvitationBody, PublicUser, Role } from '@schemas/people';
 
 export type { PublicUser, Role };
@@ -69,10 +69,19 @@ export function useRequestReset() {
 export function useCompleteReset() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { token: string; password: string }) => api<{ user: PublicUser }>('/auth/password-reset/complete', { method: 'POST', json: body }),
+    mutationFn: (body: { token: string; password: string; revokeTokens: boolean }) => api<{ user: PublicUser; revokedTokens: number }>('/auth/password-reset/complete', { method: 'POST', json: body }),
     onSuccess: (data) => {
       qc.clear();
       qc.setQueryData(['me'], data.user);
     },
+  });
+}
+
+/** Changes one's password: every other session ends; API tokens are revoked unless `revokeTokens` is false. */
+export function useChangePassword() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: ChangePasswordBody) => api<{ user: PublicUser; revokedTokens: number }>('/auth/password', { method: 'POST', json: body }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: ['tokens'] }),
   });
 }

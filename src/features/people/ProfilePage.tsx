@@ -5,6 +5,7 @@ import { DataTable, hiddenHeader } from '@/components/DataTable';
 import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { useTokenMutations, useTokens } from './api';
+import { PasswordForm } from './PasswordForm';
 
 export function ProfilePage() {
   const me = useMe();
@@ -17,7 +18,8 @@ export function ProfilePage() {
       <PageHeader title={me.data.name} kicker="Your profile">
         {me.data.email} · {me.data.roles.map((r) => ROLE_LABELS[r]).join(', ')}
       </PageHeader>
-      <section className="space-y-4">
+      <PasswordForm />
+      <section className="mt-10 space-y-4">
         <h2 className="font-heading text-lg font-bold">API tokens</h2>
         <p className="max-w-2xl text-sm text-ink-soft">
           Scripts use a token with <code>Authorization: Bearer …</code>. A token acts with your roles. It is shown once, when you create it; Tidegauge keeps only a hash.
