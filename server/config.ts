@@ -41,7 +41,7 @@ const schema = z.object({
   /** Password-reset requests per hour: from one address (then 429), and for one e-mail (then no more mail). */
   RESET_MAX_PER_ADDRESS: z.coerce.number().int().min(1).default(10),
   RESET_MAX_PER_EMAIL: z.coerce.number().int().min(1).default(3),
-  /** Heavy requests (decompositions of more than 100 000 values): units each account may spend per minute. */
+  /** Heavy decompositions: units (100 000 values, or a second of computation) each account may spend per minute. */
   HEAVY_UNITS_PER_MINUTE: z.coerce.number().int().min(1).default(30),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).optional(),
   STATIC_DIR: z.string().optional(),

@@ -8,8 +8,8 @@ import { streamNdjson, wantsStream } from '../lib/stream.js';
 import { decomposeSchemas } from '../schemas/decompose.js';
 import { frequencySchema } from '../schemas/frequency.js';
 import { cutoffPeriod, lambdaForCutoff } from '../schemas/methods.js';
-import { batchDecompose, batchValues, decomposeLarge, decomposeOne } from '../services/decompose.js';
-import { admitHeavy, heavyUnits } from '../services/heavy.js';
+import { batchDecompose, batchValues, decomposeOnWorker, decomposeOne, inlineWork } from '../services/decompose.js';
+import { admitHeavy, chargeCompute, heavyUnits } from '../services/heavy.js';
 import type { RawItem } from '../workers/batch-types.js';
 
 export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
@@ -27,10 +27,10 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
       handler: async ({ body, auth, res }) => {
         const request = body as never as DecomposeRequest;
         const units = heavyUnits(request.values.length);
-        if (!units) return void res.json(decomposeOne(request));
-        // Heavy: counted against the account's budget, then computed and serialized off the request thread.
         await admitHeavy(deps.db, deps.config.heavyUnitsPerMinute, auth!.user.id, units);
-        const bytes = await decomposeLarge(deps.pool, request);
+        if (inlineWork(request.values.length, [request.method])) return void res.json(decomposeOne(request));
+        // Large or costly: computed and serialized off the request thread, its time charged to the account.
+        const bytes = await decomposeOnWorker(deps.pool, request, (ms) => chargeCompute(deps.db, auth!.user.id, ms, units));
         res.status(200).type('application/json').end(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
       },
     },

@@ -1,6 +1,7 @@
 /**
  * Decompositions for the routes: one series, or a batch (values sent, or stored series by id and
- * vintage). Large batches go to worker threads and report progress.
+ * vintage). Anything but small work with cheap methods goes to the worker threads; large batches
+ * report progress.
  */
 import { AnalysisError, decompose, toJsonResponse, type DecomposeJson, type DecomposeRequest } from '../analysis/index.js';
 import type { Db } from '../db.js';
@@ -11,17 +12,37 @@ import { runBatchChunk } from '../workers/decompose-task.js';
 import { resolveItems } from './batch-items.js';
 import { STORED_ITEM_VALUES } from './heavy.js';
 
+/**
+ * Methods whose cost grows linearly with a small constant (measured on the 2-core test machine:
+ * 0.1–0.3 s for 1 000 000 values, Christiano–Fitzgerald 2.2 s). Work with these methods on at most
+ * INLINE_MAX_VALUES values is done on the request thread (a few tens of milliseconds at most);
+ * everything else — other methods, whose cost per value is far higher (ℓ1 trend filtering, boosted
+ * HP's BIC, Hamilton's regressions), and any method added later — runs on the worker threads, so
+ * that no request holds the thread that answers everyone else.
+ */
+const CHEAP_METHODS = new Set(['hp', 'hp-one-sided', 'whittaker', 'baxter-king', 'christiano-fitzgerald']);
+const INLINE_MAX_VALUES = 50_000;
+
+/** Whether work on `values` values with these methods is small enough for the request thread. */
+export function inlineWork(values: number, methods: Iterable<string>): boolean {
+  if (values > INLINE_MAX_VALUES) return false;
+  for (const m of methods) if (!CHEAP_METHODS.has(m)) return false;
+  return true;
+}
+
 /** One decomposition in its JSON form; an AnalysisError becomes a 400 in the error handler. */
 export function decomposeOne(request: DecomposeRequest): DecomposeJson {
   return toJsonResponse(decompose(request));
 }
 
 /**
- * One large decomposition on a worker thread, computed and written as JSON there: the request
- * thread stays free for other requests (health checks included) and only sends the bytes.
+ * One decomposition on a worker thread, computed and written as JSON there: the request thread
+ * stays free for other requests (health checks included) and only sends the bytes. `spent` hears
+ * how many milliseconds the computation took on the worker, failed or not (the per-account budget).
  */
-export async function decomposeLarge(pool: AnalysisPool, request: DecomposeRequest): Promise<Uint8Array> {
+export async function decomposeOnWorker(pool: AnalysisPool, request: DecomposeRequest, spent: (ms: number) => Promise<void>): Promise<Uint8Array> {
   const answer = await pool.runSingle({ kind: 'single', request });
+  await spent(answer.ms);
   if (!answer.ok) throw new AnalysisError(answer.error.code, answer.error.message, answer.error.details);
   return answer.body;
 }
@@ -51,12 +72,11 @@ export async function batchDecompose(ctx: BatchContext, items: RawItem[], output
   return runBatch(await resolveItems(ctx.db, items), output, ctx.pool, onProgress);
 }
 
-const INLINE_MAX_VALUES = 200_000;
 const CHUNK_VALUES = 250_000;
 
 /**
- * Runs the items, in order, and returns one JSON string per item. Small batches run here; larger
- * ones are cut into chunks for the worker pool (all threads busy at once).
+ * Runs the items, in order, and returns one JSON string per item. Small batches of cheap methods
+ * run here (inlineWork); the rest is cut into chunks for the worker pool (all threads busy at once).
  */
 export async function runBatch(
   items: (BatchItem | FailedItem)[],
@@ -72,7 +92,7 @@ export async function runBatch(
     else work.push({ index, item });
   });
   const size = work.reduce((s, w) => s + (w.item.values?.length ?? 0), 0);
-  if (!pool || size <= INLINE_MAX_VALUES) {
+  if (!pool || inlineWork(size, work.map((w) => w.item.method))) {
     const chunk = runBatchChunk({ items: work.map((w) => w.item), output });
     chunk.forEach((r, i) => (results[work[i].index] = r));
     onProgress?.(total, total);

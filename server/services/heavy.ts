@@ -1,11 +1,13 @@
 /**
- * Heavy requests and the per-account budget (README, "Guarantees"). A decomposition request over
- * more than HEAVY_VALUES values is heavy: it runs on the worker threads, and it costs one unit per
- * started 100 000 values (a stored series counts as STORED_ITEM_VALUES). Each account may spend
- * `heavyUnitsPerMinute` units in any minute; beyond that it gets 429 with Retry-After. A single
+ * Heavy requests and the per-account budget (README, "Guarantees"). A decomposition request is
+ * heavy when it carries more than HEAVY_VALUES values (one unit per started 100 000 values, a
+ * stored series counting as STORED_ITEM_VALUES, charged when it is admitted) or when its
+ * computation takes a second or more (one unit per started second, charged when it is done, less
+ * what its size already cost). Each account may spend `heavyUnitsPerMinute` units in any minute;
+ * beyond that, every decomposition request of that account gets 429 with Retry-After. A single
  * request larger than the whole budget is admitted when the account has spent nothing in the
  * minute, so every request the API accepts can run. The spending lives in the database, so the
- * budget holds across server instances (two requests arriving at the same instant may both pass).
+ * budget holds across server instances (requests arriving at the same instant may all pass).
  */
 import type { Db } from '../db.js';
 import { HttpError } from '../lib/errors.js';
@@ -22,9 +24,8 @@ export function heavyUnits(values: number): number {
   return values > HEAVY_VALUES ? Math.ceil(values / UNIT_VALUES) : 0;
 }
 
-/** Admits a heavy request of `units` for `userId`, or answers 429 with Retry-After. */
+/** Admits a decomposition request costing `units` by its size (0 if small) for `userId`, or answers 429 with Retry-After. */
 export async function admitHeavy(db: Db, budget: number, userId: number, units: number): Promise<void> {
-  if (units <= 0) return;
   const since = new Date(Date.now() - WINDOW_MS);
   const spent = await db('heavy_requests').where('user_id', userId).andWhere('at', '>', since).orderBy('at', 'asc').select('units', 'at');
   let used = spent.reduce((n, r) => n + Number(r.units), 0);
@@ -45,6 +46,16 @@ export async function admitHeavy(db: Db, budget: number, userId: number, units: 
       { 'Retry-After': String(retry) },
     );
   }
+  if (units > 0) await charge(db, userId, units);
+}
+
+/** Charges a finished computation of `ms` milliseconds: a unit per started second, less `paid` (its size's units). */
+export async function chargeCompute(db: Db, userId: number, ms: number, paid: number): Promise<void> {
+  const units = ms >= 1000 ? Math.ceil(ms / 1000) - paid : 0;
+  if (units > 0) await charge(db, userId, units);
+}
+
+async function charge(db: Db, userId: number, units: number) {
   await db('heavy_requests').insert({ user_id: userId, units });
   await db('heavy_requests').where('user_id', userId).andWhere('at', '<', new Date(Date.now() - 60 * WINDOW_MS)).delete();
 }

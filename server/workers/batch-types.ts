@@ -45,5 +45,5 @@ export interface SingleTask {
   request: DecomposeRequest;
 }
 
-/** Its answer: the JSON body as UTF-8 bytes (moved to the main thread, not copied), or the analysis error. */
-export type SingleResult = { ok: true; body: Uint8Array } | { ok: false; error: { code: string; message: string; details?: unknown } };
+/** Its answer: the JSON body as UTF-8 bytes (moved to the main thread, not copied), or the analysis error; and the milliseconds computed. */
+export type SingleResult = { ok: true; body: Uint8Array; ms: number } | { ok: false; error: { code: string; message: string; details?: unknown }; ms: number };

@@ -54,12 +54,14 @@ export async function runStoredChunk(task: StoredTask): Promise<string[]> {
   return results;
 }
 
-/** One large decomposition: computed and serialized here, so the request thread only sends the bytes. */
+/** One decomposition: computed and serialized here, so the request thread only sends the bytes. */
 export function runSingle(task: SingleTask): SingleResult {
+  const started = performance.now();
   try {
-    return { ok: true, body: new TextEncoder().encode(JSON.stringify(toJsonResponse(decompose(task.request)))) };
+    const body = new TextEncoder().encode(JSON.stringify(toJsonResponse(decompose(task.request))));
+    return { ok: true, body, ms: performance.now() - started };
   } catch (error) {
-    if (error instanceof AnalysisError) return { ok: false, error: { code: error.code, message: error.message, ...(error.details === undefined ? {} : { details: error.details }) } };
+    if (error instanceof AnalysisError) return { ok: false, error: { code: error.code, message: error.message, ...(error.details === undefined ? {} : { details: error.details }) }, ms: performance.now() - started };
     throw error;
   }
 }

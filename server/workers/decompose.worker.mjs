@@ -1,6 +1,6 @@
-// Worker-thread entry for batch decompositions. Plain JavaScript so that it loads in any host
+// Worker-thread entry for decompositions (single large or costly ones, and batches). Plain JavaScript so that it loads in any host
 // (the server under tsx, or a test runner): it registers tsx, then loads the TypeScript task.
-import { move } from 'piscina';
+import { move, transferableSymbol, valueSymbol } from 'piscina';
 import { register } from 'tsx/esm/api';
 
 register();
@@ -9,8 +9,8 @@ const { runBatchChunk, runSingle, runStoredChunk } = await import('./decompose-t
 export default function task(input) {
   if (input.kind === 'single') {
     const result = runSingle(input);
-    // The answer's bytes are moved to the main thread, not copied (piscina moves a returned value only).
-    return result.ok ? move(result.body) : result;
+    // The answer's bytes are moved to the main thread, not copied.
+    return result.ok ? move({ [transferableSymbol]: result.body.buffer, [valueSymbol]: result }) : result;
   }
   return input.kind === 'stored' ? runStoredChunk(input) : runBatchChunk(input);
 }

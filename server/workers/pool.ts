@@ -9,7 +9,7 @@ import type { BatchTask, SingleResult, SingleTask, StoredTask } from './batch-ty
 
 export interface AnalysisPool {
   run(task: BatchTask | StoredTask): Promise<string[]>;
-  /** One large decomposition, answered as JSON bytes. */
+  /** One decomposition, answered as JSON bytes (or its analysis error), with the milliseconds it computed. */
   runSingle(task: SingleTask): Promise<SingleResult>;
   close(): Promise<void>;
   threads: number;
