@@ -1,9 +1,8 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { hashPassword } from '../../server/auth/password.js';
 import { EXHIBIT_STATES, type ExhibitState } from '../../server/schemas/exhibits.js';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
-import { signedIn } from '../helpers/session.js';
+import { addPerson, signedIn } from '../helpers/session.js';
 
 type Agent = Awaited<ReturnType<typeof signedIn>>;
 let t: TestApp;
@@ -18,11 +17,7 @@ let dual: Agent; // economist and editor at once
 let gdpId: number;
 let studyId: number;
 
-async function addUser(email: string, name: string, roles: string[]) {
-  const [id] = await t.db('users').insert({ email, name, password_hash: await hashPassword('a-test-password') });
-  await t.db('user_roles').insert(roles.map((role) => ({ user_id: id, role })));
-  return signedIn(t, email, 'a-test-password');
-}
+const addUser = (email: string, name: string, roles: string[]) => addPerson(t, email, name, roles);
 
 beforeAll(async () => {
   t = await makeTestApp({}, { seedDemo: true });

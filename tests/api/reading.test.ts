@@ -9,21 +9,15 @@ import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { hashPassword } from '../../server/auth/password.js';
 import { csvLine } from '../../server/importers/export.js';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { asBytes } from '../helpers/parsers.js';
-import { signedIn } from '../helpers/session.js';
+import { addPerson, signedIn } from '../helpers/session.js';
 
 type Agent = Awaited<ReturnType<typeof signedIn>>;
 let t: TestApp;
-let author: Agent;
-let economist2: Agent;
-let editor: Agent;
-let editor2: Agent;
-let viewer: Agent;
-let steward: Agent;
-let admin: Agent;
+/** The demo accounts (the economist is the author of everything here) and a second economist and editor. */
+let author: Agent, economist2: Agent, editor: Agent, editor2: Agent, viewer: Agent, steward: Agent, admin: Agent;
 let gdpId: number;
 let studyId: number;
 
@@ -32,11 +26,6 @@ const APPROVAL_COMMENT = 'Canary: approved after a second look.';
 const STUDY_TITLE = 'Canary internal study title';
 const NOTES = 'Canary internal notes: check against the staff forecast before the board meeting.';
 
-async function addUser(email: string, name: string, roles: string[]) {
-  const [id] = await t.db('users').insert({ email, name, password_hash: await hashPassword('a-test-password') });
-  await t.db('user_roles').insert(roles.map((role) => ({ user_id: id, role })));
-  return signedIn(t, email, 'a-test-password');
-}
 const move = (who: Agent, id: number, to: string, comment?: string) => who.post(`/api/v1/exhibits/${id}/transitions`).send({ to, ...(comment ? { comment } : {}) }).expect(200);
 
 /** An exhibit returned once (with a comment), changed, resubmitted, approved by one editor and published by another. */
@@ -53,13 +42,9 @@ async function publishedAfterReview() {
 
 beforeAll(async () => {
   t = await makeTestApp({}, { seedDemo: true });
-  author = await signedIn(t, 'economist@demo.test');
-  editor = await signedIn(t, 'editor@demo.test');
-  viewer = await signedIn(t, 'viewer@demo.test');
-  steward = await signedIn(t, 'steward@demo.test');
-  admin = await signedIn(t, 'admin@demo.test');
-  economist2 = await addUser('second.economist@demo.test', 'Second Economist', ['economist']);
-  editor2 = await addUser('second.editor@demo.test', 'Second Editor', ['editor']);
+  [author, editor, viewer, steward, admin] = await Promise.all(['economist', 'editor', 'viewer', 'steward', 'admin'].map((r) => signedIn(t, `${r}@demo.test`)));
+  economist2 = await addPerson(t, 'second.economist@demo.test', 'Second Economist', ['economist']);
+  editor2 = await addPerson(t, 'second.editor@demo.test', 'Second Editor', ['editor']);
   gdpId = (await t.db('series').where('code', 'EST_GDP_REAL').first()).id;
   studyId = (await author.post('/api/v1/studies').send({ title: STUDY_TITLE, seriesId: gdpId, vintage: 'latest', transform: 'log100', method: 'hp', params: { lambda: 1600 } }).expect(201)).body.id;
 }, 120_000);

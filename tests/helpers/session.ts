@@ -1,5 +1,6 @@
 import request from 'supertest';
 import type { TestApp } from './app.js';
+import { hashPassword } from '../../server/auth/password.js';
 import { DEMO_PASSWORD } from '../../seeds/demo.js';
 
 export const ORIGIN = 'http://127.0.0.1:3000';
@@ -27,4 +28,11 @@ export function firstLink(text: string): string {
   const m = /(https?:\/\/\S+)/.exec(text);
   if (!m) throw new Error(`no link in the message: ${text}`);
   return m[1];
+}
+
+/** A person added straight to the database with `roles`, signed in (password "a-test-password"). */
+export async function addPerson(t: Pick<TestApp, 'app' | 'db' | 'config'>, email: string, name: string, roles: string[]) {
+  const [id] = await t.db('users').insert({ email, name, password_hash: await hashPassword('a-test-password') });
+  await t.db('user_roles').insert(roles.map((role) => ({ user_id: id, role })));
+  return signedIn(t, email, 'a-test-password');
 }
