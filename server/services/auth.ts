@@ -97,6 +97,8 @@ export async function acceptResetRequest(deps: Pick<PeopleDeps, 'db' | 'config'>
 export async function sendResetLink(deps: PeopleDeps, email: string, ip: string) {
   const { db, config } = deps;
   const since = new Date(Date.now() - config.passwordReset.windowMinutes * 60_000);
+  // Requests older than a day count for nothing any more.
+  await db('password_reset_requests').where('at', '<', new Date(Date.now() - 86_400_000)).delete();
   const [{ n }] = await db('password_reset_requests').where('email', email).andWhere('at', '>', since).count({ n: '*' });
   const user = await db('users').where('email', email).andWhere('status', 'active').first();
   if (Number(n) > config.passwordReset.maxPerEmail) {
