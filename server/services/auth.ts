@@ -29,19 +29,18 @@ export async function signInThrottle(deps: Pick<PeopleDeps, 'db' | 'config'>, em
   const { db, config } = deps;
   const windowMs = config.signIn.windowMinutes * 60_000;
   const windowStart = new Date(Date.now() - windowMs);
-  const failures = async (where: Record<string, string>) => {
-    const rows = await db('sign_in_attempts').where(where).andWhere('success', false).andWhere('at', '>', windowStart).orderBy('at', 'asc').select('at');
-    return rows.map((r) => new Date(r.at).getTime());
+  /** When the `max`-th newest failure matching `where` leaves the window (0: fewer than `max` failures in it). */
+  const until = async (where: Record<string, string>, max: number) => {
+    const rows = await db('sign_in_attempts').where(where).andWhere('success', false).andWhere('at', '>', windowStart).orderBy('at', 'desc').limit(max).select('at');
+    return rows.length >= max ? new Date(rows[max - 1].at).getTime() + windowMs : 0;
   };
-  const [pair, address, account] = await Promise.all([failures({ email, ip }), failures({ ip }), failures({ email })]);
+  const [pairUntil, addressUntil, ceiling] = await Promise.all([until({ email, ip }, config.signIn.maxPerAccount), until({ ip }, config.signIn.maxPerAddress), until({ email }, config.signIn.accountCeiling)]);
   const now = Date.now();
-  const until = (list: number[], max: number) => (list.length >= max ? list[list.length - max] + windowMs : 0);
   let limit: 'account_and_address' | 'address' | 'account_ceiling' | null = null;
   let wait = 0;
-  for (const [name, at] of [['account_and_address', until(pair, config.signIn.maxPerAccount)], ['address', until(address, config.signIn.maxPerAddress)]] as const) {
+  for (const [name, at] of [['account_and_address', pairUntil], ['address', addressUntil]] as const) {
     if (at > now && at > wait) [limit, wait] = [name, at];
   }
-  const ceiling = until(account, config.signIn.accountCeiling);
   if (!limit && ceiling > now) {
     const known = await db('sign_in_attempts').where({ email, ip, success: true }).andWhere('at', '>', new Date(now - 30 * 86_400_000)).first('id');
     if (!known) [limit, wait] = ['account_ceiling', ceiling];
