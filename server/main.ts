@@ -57,8 +57,9 @@ async function close(signal: string) {
   const { unfinished, ms } = await drain.shutdown(server, {
     graceMs: config.shutdownGraceMs,
     logger,
-    // Work whose client went away still holds or waits for connections, or runs on a worker thread.
-    busy: () => poolInUse(db) > 0 || pool.active > 0,
+    // Work whose client went away still holds or waits for connections, or runs on a worker thread;
+    // work done after an answer (a reset mail) is finished too.
+    busy: () => poolInUse(db) > 0 || pool.active > 0 || app.locals.background.pending > 0,
     close: () => Promise.allSettled([app.locals.shutdown(), db.destroy(), mailbox?.close()]),
   });
   logger.info(`closed after ${ms} ms`);

@@ -10,6 +10,8 @@ export interface Background {
   run(name: string, work: () => Promise<unknown>): void;
   /** Resolves when no work is pending (tests, and a clean shutdown). */
   idle(): Promise<void>;
+  /** Pieces of work not finished yet (the shutdown's drain waits for them). */
+  readonly pending: number;
 }
 
 export function createBackground(logger: Logger): Background {
@@ -24,6 +26,9 @@ export function createBackground(logger: Logger): Background {
     },
     async idle() {
       while (pending.size) await Promise.allSettled([...pending]);
+    },
+    get pending() {
+      return pending.size;
     },
   };
 }
