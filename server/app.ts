@@ -27,6 +27,8 @@ import { decomposeRoutes } from './routes/decompose.js';
 import { studyRoutes } from './routes/studies.js';
 import { boardRoutes } from './routes/boards.js';
 import { exhibitRoutes } from './routes/exhibits.js';
+import { chronologyRoutes } from './routes/chronology.js';
+import { printRoutes } from './routes/print.js';
 import { configureObservationCache } from './services/catalogue/stored-values.js';
 import { createAnalysisPool } from './workers/pool.js';
 
@@ -112,7 +114,7 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
   api.use(authenticate(db, deps.lucia));
   api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));

@@ -23,6 +23,8 @@ export const ACCESS = {
   review: ['editor'],
   /** An exhibit's review record (revisions compared); per person: its author, editors and administrators (services/exhibits/views.ts). */
   reviewRecord: ['economist', 'editor', 'admin'],
+  /** Keeping the reference chronology (dated peaks and troughs). */
+  chronologyWrite: ['admin', 'editor'],
   /** People, invitations, the audit log, settings, the Mailbox. */
   people: ['admin'],
 } as const satisfies Record<string, readonly Role[]>;
@@ -54,17 +56,18 @@ export const PAGES = [
   { path: '/catalogue/:id', access: 'signedIn', api: ['GET /api/v1/series/:id', 'GET /api/v1/series/:id/vintages', 'GET /api/v1/series/:id/vintages/:number/observations', 'GET /api/v1/series/:id/revisions', 'GET /api/v1/series/:id/revisions/triangle'] },
   { path: '/catalogue/:id/edit', access: ACCESS.catalogueWrite, api: ['PATCH /api/v1/series/:id', 'GET /api/v1/series/:id'] },
   { path: '/studies', access: ACCESS.studiesRead, api: ['GET /api/v1/studies', 'GET /api/v1/methods'], nav: 'Studies' },
-  { path: '/studies/new', access: ACCESS.studiesWrite, api: ['POST /api/v1/studies', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'GET /api/v1/methods', 'GET /api/v1/series'] },
+  { path: '/studies/new', access: ACCESS.studiesWrite, api: ['POST /api/v1/studies', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'GET /api/v1/methods', 'GET /api/v1/series', 'GET /api/v1/chronologies'] },
   {
     path: '/studies/:id',
     access: ACCESS.studiesRead,
-    api: ['GET /api/v1/studies/:id', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'POST /api/v1/studies/:id/realtime', 'GET /api/v1/studies/:id/export', 'GET /api/v1/methods', 'GET /api/v1/series'],
+    api: ['GET /api/v1/studies/:id', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'POST /api/v1/studies/:id/realtime', 'GET /api/v1/studies/:id/export', 'GET /api/v1/methods', 'GET /api/v1/series', 'GET /api/v1/chronologies'],
   },
   { path: '/boards', access: 'signedIn', api: ['GET /api/v1/boards'], nav: 'Boards' },
-  { path: '/boards/:id', access: 'signedIn', api: ['GET /api/v1/boards/:id', 'GET /api/v1/boards/:id/panels/:panelId/data'] },
-  { path: '/exhibits', access: 'signedIn', api: ['GET /api/v1/exhibits'], nav: 'Exhibits' },
+  { path: '/boards/:id', access: 'signedIn', api: ['GET /api/v1/boards/:id', 'GET /api/v1/boards/:id/panels/:panelId/data', 'GET /api/v1/boards/:id/pack.pdf', 'GET /api/v1/boards/:id/pack.zip'] },
+  { path: '/exhibits', access: 'signedIn', api: ['GET /api/v1/exhibits', 'POST /api/v1/exhibits/pack'], nav: 'Exhibits' },
   { path: '/exhibits/new', access: ACCESS.exhibitsDraft, api: ['POST /api/v1/exhibits'] },
-  { path: '/exhibits/:id', access: 'signedIn', api: ['GET /api/v1/exhibits/:id', 'GET /api/v1/exhibits/:id/data', 'POST /api/v1/exhibits/:id/transitions'] },
+  { path: '/exhibits/:id', access: 'signedIn', api: ['GET /api/v1/exhibits/:id', 'GET /api/v1/exhibits/:id/data', 'GET /api/v1/exhibits/:id/pdf', 'POST /api/v1/exhibits/:id/transitions', 'GET /api/v1/chronologies'] },
+  { path: '/chronology', access: 'signedIn', api: ['GET /api/v1/chronologies', 'GET /api/v1/chronologies/:id', 'GET /api/v1/series'], nav: 'Chronology' },
   { path: '/review', access: ACCESS.review, api: ['GET /api/v1/review'], nav: 'Review desk' },
   { path: '/people', access: ACCESS.people, api: ['GET /api/v1/users', 'GET /api/v1/invitations', 'GET /api/v1/audit', 'GET /api/v1/settings'], nav: 'People' },
   { path: '/people/mailbox', access: ACCESS.people, api: ['GET /api/v1/dev/mailbox'] },

@@ -1,6 +1,7 @@
 /** Exhibits (charts prepared for publication) and their review: bodies, states, snapshots and answers, shared with the client. */
 import { z } from 'zod';
 import { notesSchema, titleSchema } from './boards.js';
+import type { ChronologyStamp } from './chronology.js';
 
 export const EXHIBIT_STATES = ['draft', 'in_review', 'returned', 'approved', 'published', 'withdrawn'] as const;
 export type ExhibitState = (typeof EXHIBIT_STATES)[number];
@@ -12,6 +13,10 @@ const exhibitText = {
   units: z.string().trim().max(120, 'Units have at most 120 characters.').optional(),
   sourceLine: z.string().trim().max(300, 'The source line has at most 300 characters.').optional(),
   chartKind: z.enum(['cycle', 'trend']).optional(),
+  /** The exhibit's number as the report prints it ("Chart 3"). */
+  number: z.string().trim().max(40, 'A number has at most 40 characters.').optional(),
+  /** The reference chronology whose contractions the chart shades (null: none). */
+  chronologyId: z.number().int().positive().nullable().optional(),
 };
 export const createExhibitSchema = z
   .object({ studyId: z.number().int().positive().optional(), panelId: z.number().int().positive().optional(), ...exhibitText })
@@ -40,6 +45,12 @@ export interface Snapshot {
   caution: string;
   software: { name: string; version: string };
   frozenAt: string | null;
+  /** Contractions of the reference chronology the chart shades, as frozen (issue 14). */
+  chronology?: ChronologyStamp | null;
+  /** The printed frame as frozen: number, institution and the source line in the institution's wording. */
+  publication?: { number: string | null; institution: string; sourceLine: string };
+  /** The transform of a single study's data (trend charts show levels on the series' scale). */
+  transform?: string;
 }
 
 /** One recorded state change of an exhibit. */
@@ -62,6 +73,8 @@ export interface ExhibitSummary {
   sourceLine: string | null;
   notes: string | null;
   chartKind: 'cycle' | 'trend';
+  number: string | null;
+  chronologyId: number | null;
   status: ExhibitState;
   revision: number;
   studyId: number | null;

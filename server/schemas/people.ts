@@ -65,9 +65,22 @@ export const createTokenSchema = z.object({
   name: z.string({ error: 'Name the token.' }).trim().min(1, 'Name the token.').max(100, 'Use at most 100 characters.'),
 });
 
-export const updateSettingsSchema = z.object({
-  publicExhibitLinks: z.boolean(),
-});
+export const updateSettingsSchema = z
+  .object({
+    publicExhibitLinks: z.boolean().optional(),
+    /** The institution's name, printed on exhibits' figures and publication packs. */
+    institutionName: z.string().trim().max(120, 'The institution’s name has at most 120 characters.').optional(),
+    /** The wording of exhibits' source line; {sources} stands for the exhibit's sources. */
+    sourceLineWording: z
+      .string()
+      .trim()
+      .min(1, 'Give the wording of the source line.')
+      .max(200, 'The wording has at most 200 characters.')
+      .refine((v) => v.includes('{sources}'), 'Put {sources} where the exhibit’s sources go, e.g. “Sources: {sources}; staff calculations.”')
+      .optional(),
+  })
+  .refine((v) => Object.keys(v).length > 0, 'Send at least one setting.');
+export type UpdateSettingsBody = z.infer<typeof updateSettingsSchema>;
 
 /** A person as the People page lists them. */
 export interface Person {

@@ -1,13 +1,18 @@
 import type { Db } from '../db.js';
 import { transaction } from '../lib/retry.js';
+import { DEFAULT_SOURCE_WORDING } from '../schemas/charts/figure.js';
 import { audit } from './audit.js';
 
 export interface WorkspaceSettings {
   /** Published exhibits can be opened by anyone with the link, without signing in. */
   publicExhibitLinks: boolean;
+  /** The institution's name on exhibits' figures (empty: none printed). */
+  institutionName: string;
+  /** The wording of exhibits' source line, with {sources} for the exhibit's sources. */
+  sourceLineWording: string;
 }
 
-const DEFAULTS: WorkspaceSettings = { publicExhibitLinks: false };
+const DEFAULTS: WorkspaceSettings = { publicExhibitLinks: false, institutionName: '', sourceLineWording: DEFAULT_SOURCE_WORDING };
 
 export async function getSettings(db: Db): Promise<WorkspaceSettings> {
   const rows = await db('settings').select('key', 'value');

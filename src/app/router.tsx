@@ -11,6 +11,7 @@ import { ForgotPasswordPage, ResetPasswordPage } from '@/features/auth/PasswordP
 import { SignInPage } from '@/features/auth/SignInPage';
 import { BoardPage } from '@/features/boards/BoardPage';
 import { BoardsPage } from '@/features/boards/BoardsPage';
+import { ChronologyPage } from '@/features/chronology/ChronologyPage';
 import { CataloguePage } from '@/features/catalogue/CataloguePage';
 import { LoadsPage } from '@/features/catalogue/LoadsPage';
 import { EditSeriesPage, NewSeriesPage } from '@/features/catalogue/SeriesForm';
@@ -45,6 +46,7 @@ const ELEMENTS: Record<PagePath, ReactNode> = {
   '/exhibits': <ExhibitsPage />,
   '/exhibits/new': <NewExhibitPage />,
   '/exhibits/:id': <ExhibitPage />,
+  '/chronology': <ChronologyPage />,
   '/review': <ReviewDeskPage />,
   '/people': <PeoplePage />,
   '/people/mailbox': <MailboxPage />,

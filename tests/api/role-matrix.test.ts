@@ -116,6 +116,18 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/review', allow: ['editor'] },
   { route: 'GET /api/v1/public/exhibits/:slug', path: '/api/v1/public/exhibits/nothing', allow: PUBLIC },
   { route: 'GET /api/v1/public/exhibits/:slug/data', path: '/api/v1/public/exhibits/nothing/data', allow: PUBLIC },
+  // Print (issue 14): PDF as the exhibit itself; packs of published exhibits; the reference chronology
+  // read by everyone signed in and kept by administrators and editors.
+  { route: 'GET /api/v1/exhibits/:id/pdf', path: '/api/v1/exhibits/999999/pdf', allow: SIGNED_IN },
+  { route: 'POST /api/v1/exhibits/pack', body: { ids: [999999] }, allow: SIGNED_IN },
+  { route: 'GET /api/v1/boards/:id/pack.pdf', path: '/api/v1/boards/999999/pack.pdf', allow: SIGNED_IN },
+  { route: 'GET /api/v1/boards/:id/pack.zip', path: '/api/v1/boards/999999/pack.zip', allow: SIGNED_IN },
+  { route: 'GET /api/v1/chronologies', allow: SIGNED_IN },
+  { route: 'GET /api/v1/chronologies/:id', path: '/api/v1/chronologies/999999', allow: SIGNED_IN },
+  { route: 'POST /api/v1/chronologies', body: {}, allow: ['admin', 'editor'] },
+  { route: 'PATCH /api/v1/chronologies/:id', path: '/api/v1/chronologies/999999', body: { name: 'x' }, allow: ['admin', 'editor'] },
+  { route: 'DELETE /api/v1/chronologies/:id', path: '/api/v1/chronologies/999999', allow: ['admin', 'editor'] },
+  { route: 'POST /api/v1/chronologies/from-series', body: { seriesId: 999999 }, allow: ['admin', 'editor'] },
 ];
 
 let t: TestApp;

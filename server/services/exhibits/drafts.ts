@@ -4,6 +4,7 @@ import type { CreateExhibitBody, UpdateExhibitBody } from '../../schemas/exhibit
 import { conflict, forbidden, notFound } from '../../lib/errors.js';
 import { audit } from '../audit.js';
 import { panelById, panelData } from '../boards.js';
+import { getChronology } from '../chronology.js';
 import { computeSpec } from '../studies/results.js';
 import { getStudy } from '../studies/studies.js';
 import { canSee, exhibitRow, getExhibit, type ExhibitDeps } from './read.js';
@@ -24,6 +25,7 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
     units ??= data.unit;
     sourceLine ??= [...new Set(data.series.map((s) => s.source))].join('; ');
   }
+  if (body.chronologyId) await getChronology(db, body.chronologyId);
   const id = await transaction(db, async (trx) => {
     const [newId] = await trx('exhibits').insert({
       author_id: user.id,
@@ -35,6 +37,8 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
       source_line: sourceLine,
       notes: body.notes ?? null,
       chart_kind: body.chartKind ?? 'cycle',
+      number_label: body.number || null,
+      chronology_id: body.chronologyId ?? null,
       status: 'draft',
     });
     await trx('exhibit_events').insert({ exhibit_id: newId, actor_id: user.id, from_status: null, to_status: 'draft', comment: null, revision: 0 });
@@ -46,6 +50,7 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
 
 export async function updateExhibit(deps: ExhibitDeps, user: PublicUser, id: number, body: UpdateExhibitBody) {
   const { db } = deps;
+  if (body.chronologyId) await getChronology(db, body.chronologyId);
   await transaction(db, async (trx) => {
     const row = await exhibitRow(trx, id, true);
     if (!canSee(user, row)) throw notFound('The exhibit');
@@ -60,6 +65,8 @@ export async function updateExhibit(deps: ExhibitDeps, user: PublicUser, id: num
     if (body.units !== undefined) change.units = body.units || null;
     if (body.sourceLine !== undefined) change.source_line = body.sourceLine || null;
     if (body.chartKind !== undefined) change.chart_kind = body.chartKind;
+    if (body.number !== undefined) change.number_label = body.number || null;
+    if (body.chronologyId !== undefined) change.chronology_id = body.chronologyId;
     await trx('exhibits').where('id', id).update(change);
   });
   return getExhibit(deps, user, id);

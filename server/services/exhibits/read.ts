@@ -62,6 +62,8 @@ export function summary(row: Record<string, any>): ExhibitSummary {
     sourceLine: row.source_line,
     notes: row.notes,
     chartKind: row.chart_kind,
+    number: row.number_label ?? null,
+    chronologyId: row.chronology_id ?? null,
     status: row.status as ExhibitState,
     revision: row.revision,
     studyId: row.study_id,

@@ -12,7 +12,10 @@ import { CAUTION_LINE } from '../../schemas/cautions.js';
 import type { Snapshot } from '../../schemas/exhibits.js';
 import type { StudyResult } from '../../schemas/studies.js';
 import type { PanelData } from '../../schemas/boards.js';
+import { sourceLine } from '../../schemas/charts/figure.js';
 import { panelById, panelData } from '../boards.js';
+import { chronologyStamp } from '../chronology.js';
+import { getSettings } from '../settings.js';
 import { computeSpec } from '../studies/results.js';
 import { getStudy } from '../studies/studies.js';
 async function vintageChecksum(db: Db, seriesId: number, number: number) {
@@ -21,7 +24,11 @@ async function vintageChecksum(db: Db, seriesId: number, number: number) {
 
 /** The exhibit's content computed from the current data (a draft's live view, or the next snapshot). */
 export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string, any>, frozen: boolean): Promise<Snapshot> {
+  const settings = await getSettings(db);
   const common = {
+    // What the printed figure carries beyond the data, frozen with it (issue 14).
+    chronology: await chronologyStamp(db, row.chronology_id),
+    publication: { number: row.number_label ?? null, institution: settings.institutionName, sourceLine: sourceLine(settings.sourceLineWording, row.source_line) },
     schema: 1 as const,
     text: { title: row.title, subtitle: row.subtitle, units: row.units, sourceLine: row.source_line, notes: row.notes },
     caution: CAUTION_LINE,
@@ -37,6 +44,7 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
     lines: (['input', 'trend', 'cycle'] as const).map((role) => ({ label: role, role, periods: r.periods, values: r[role] })),
     studies,
     turningPoints: r.turningPoints.map((t) => ({ period: t.period, type: t.type })),
+    transform: r.transform,
     endOfSamplePeriods: r.endOfSamplePeriods,
     methodLine: r.methodLine,
     vintageStamp: r.vintageStamp,

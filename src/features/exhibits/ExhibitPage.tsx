@@ -10,6 +10,7 @@ import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/
 import { useMe } from '@/features/auth/api';
 import { MOVE_LABELS, STATE_LABELS, useDiff, useExhibit, useExhibitMutations, type Exhibit, type ExhibitState } from './api';
 import { ExhibitDownloads, ExhibitFigure } from './ExhibitFigure';
+import { useChronologies } from '@/features/chronology/api';
 
 export function StateBadge({ state }: { state: ExhibitState }) {
   const tone: Record<ExhibitState, string> = {
@@ -34,16 +35,22 @@ const textSchema = z.object({
   sourceLine: z.string().max(300).optional(),
   notes: z.string().max(5000).optional(),
   chartKind: z.enum(['cycle', 'trend']),
+  number: z.string().max(40).optional(),
+  chronologyId: z.string().optional(),
 });
 
 function TextForm({ exhibit }: { exhibit: Exhibit }) {
   const { update } = useExhibitMutations(exhibit.id);
-  const form = useForm<z.infer<typeof textSchema>>({
-    resolver: zodResolver(textSchema),
-    defaultValues: { title: exhibit.title, subtitle: exhibit.subtitle ?? '', units: exhibit.units ?? '', sourceLine: exhibit.sourceLine ?? '', notes: exhibit.notes ?? '', chartKind: exhibit.chartKind },
-  });
+  const chronologies = useChronologies();
+  const values = (e: Exhibit) => ({ title: e.title, subtitle: e.subtitle ?? '', units: e.units ?? '', sourceLine: e.sourceLine ?? '', notes: e.notes ?? '', chartKind: e.chartKind, number: e.number ?? '', chronologyId: e.chronologyId ? String(e.chronologyId) : '' });
+  const form = useForm<z.infer<typeof textSchema>>({ resolver: zodResolver(textSchema), defaultValues: values(exhibit) });
   return (
-    <form noValidate className="card space-y-3 p-4" aria-label="Exhibit text" onSubmit={form.handleSubmit((v) => update.mutate(v, { onSuccess: (e) => form.reset({ title: e.title, subtitle: e.subtitle ?? '', units: e.units ?? '', sourceLine: e.sourceLine ?? '', notes: e.notes ?? '', chartKind: e.chartKind }) }))}>
+    <form
+      noValidate
+      className="card space-y-3 p-4"
+      aria-label="Exhibit text"
+      onSubmit={form.handleSubmit((v) => update.mutate({ ...v, chronologyId: v.chronologyId ? Number(v.chronologyId) : null }, { onSuccess: (e) => form.reset(values(e)) }))}
+    >
       <h2 className="font-heading text-base font-bold">Text of the exhibit</h2>
       <Field label="Title" htmlFor="ex-title" error={form.formState.errors.title?.message}>
         <input id="ex-title" className="field" {...form.register('title')} />
@@ -62,13 +69,28 @@ function TextForm({ exhibit }: { exhibit: Exhibit }) {
           </select>
         </Field>
       </div>
-      <Field label="Source line" htmlFor="ex-source">
+      <div className="grid grid-cols-2 gap-2">
+        <Field label="Number" htmlFor="ex-number">
+          <input id="ex-number" className="field" placeholder="Chart 3" {...form.register('number')} />
+        </Field>
+        <Field label="Shade contractions" htmlFor="ex-chronology">
+          <select id="ex-chronology" className="field" {...form.register('chronologyId')}>
+            <option value="">none</option>
+            {chronologies.data?.map((c) => (
+              <option key={c.id} value={String(c.id)}>
+                {c.name} ({c.area})
+              </option>
+            ))}
+          </select>
+        </Field>
+      </div>
+      <Field label="Sources" htmlFor="ex-source">
         <input id="ex-source" className="field" {...form.register('sourceLine')} />
       </Field>
       <Field label="Notes" htmlFor="ex-notes">
         <textarea id="ex-notes" rows={3} className="field" {...form.register('notes')} />
       </Field>
-      <p className="text-xs text-ink-faint">The method line and the vintage stamp are written by Tidegauge from the data.</p>
+      <p className="text-xs text-ink-faint">The source line is printed in the institution’s wording; the method line and the vintage stamp are written by Tidegauge from the data.</p>
       <ErrorNote error={update.error} />
       <button className="btn" disabled={update.isPending || !form.formState.isDirty}>
         {form.formState.isDirty ? 'Save the text' : 'Text saved'}
@@ -244,7 +266,7 @@ export function ExhibitPage() {
       <div className="grid gap-6 xl:grid-cols-[1fr_22rem]">
         <div className="min-w-0 space-y-4">
           {shown ? <ExhibitFigure snapshot={shown} draft={!e.snapshot || e.editable} /> : <ErrorNote error={new Error('The study or panel this exhibit came from is gone.')} />}
-          {shown && <ExhibitDownloads snapshot={shown} dataUrl={`/exhibits/${e.id}/data`} name={`exhibit-${e.id}-r${e.revision}`} />}
+          {shown && <ExhibitDownloads snapshot={shown} dataUrl={`/exhibits/${e.id}/data`} pdfUrl={`/exhibits/${e.id}/pdf`} name={`exhibit-${e.id}-r${e.revision}`} />}
           {e.publicUrl && (
             <p className="text-sm">
               Public link: <a className="text-trend underline" href={e.publicUrl}>{e.publicUrl}</a>

@@ -216,7 +216,37 @@ function SettingsTab() {
           <span className="block text-sm text-ink-soft">When on, anyone with the link of a published exhibit can read it without signing in. Follow your institution’s publication rules.</span>
         </span>
       </label>
+      <PublicationSettings key={`${settings.data.institutionName}|${settings.data.sourceLineWording}`} institutionName={settings.data.institutionName} sourceLineWording={settings.data.sourceLineWording} onSave={(v) => update.mutate(v)} saving={update.isPending} />
       <ErrorNote error={update.error} />
     </div>
+  );
+}
+
+/** The institution's name and the wording of exhibits' source line (printed on figures and packs). */
+function PublicationSettings(props: { institutionName: string; sourceLineWording: string; saving: boolean; onSave: (v: { institutionName: string; sourceLineWording: string }) => void }) {
+  const [name, setName] = useState(props.institutionName);
+  const [wording, setWording] = useState(props.sourceLineWording);
+  const dirty = name !== props.institutionName || wording !== props.sourceLineWording;
+  return (
+    <form
+      className="space-y-3 border-t border-hairline pt-3"
+      aria-label="Exhibits as printed"
+      onSubmit={(e) => {
+        e.preventDefault();
+        props.onSave({ institutionName: name.trim(), sourceLineWording: wording.trim() });
+      }}
+    >
+      <h2 className="font-heading text-base font-bold">Exhibits as printed</h2>
+      <Field label="Institution’s name" htmlFor="set-institution">
+        <input id="set-institution" className="field" value={name} onChange={(e) => setName(e.target.value)} placeholder="e.g. Research Department" />
+      </Field>
+      <Field label="Source line wording" htmlFor="set-wording">
+        <input id="set-wording" className="field" value={wording} onChange={(e) => setWording(e.target.value)} />
+      </Field>
+      <p className="text-xs text-ink-faint">{'{sources}'} stands for the exhibit’s sources. Exhibits freeze both when they are submitted.</p>
+      <button className="btn" disabled={!dirty || props.saving}>
+        {dirty ? 'Save' : 'Saved'}
+      </button>
+    </form>
   );
 }

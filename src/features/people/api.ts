@@ -10,7 +10,7 @@ export const useInvitations = () => useQuery({ queryKey: ['invitations'], queryF
 export const useAudit = () => useQuery({ queryKey: ['audit'], queryFn: () => api<{ items: AuditRow[] }>('/audit?limit=300').then((r) => r.items) });
 export const useMailbox = () =>
   useQuery({ queryKey: ['mailbox'], queryFn: () => api<{ items: MailMessage[] }>('/dev/mailbox').then((r) => r.items), refetchInterval: 5000 });
-export const useSettings = () => useQuery({ queryKey: ['settings'], queryFn: () => api<{ publicExhibitLinks: boolean }>('/settings') });
+export const useSettings = () => useQuery({ queryKey: ['settings'], queryFn: () => api<WorkspaceSettings>('/settings') });
 
 export function useUpdatePerson() {
   const qc = useQueryClient();
@@ -40,10 +40,17 @@ export function useInvitationAction() {
   });
 }
 
+/** The workspace settings (services/settings.ts). */
+export interface WorkspaceSettings {
+  publicExhibitLinks: boolean;
+  institutionName: string;
+  sourceLineWording: string;
+}
+
 export function useUpdateSettings() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: { publicExhibitLinks: boolean }) => api('/settings', { method: 'PUT', json: body }),
+    mutationFn: (body: Partial<WorkspaceSettings>) => api('/settings', { method: 'PUT', json: body }),
     onSuccess: () => qc.invalidateQueries({ queryKey: ['settings'] }),
   });
 }

@@ -62,7 +62,7 @@ export function RealtimeView({ studyId }: { studyId: number | undefined }) {
                   ],
                 });
                 const rt = new Map(result.realTime.filter((p) => p.period).map((p) => [p.period!, p.value]));
-                (o.series as unknown[]).push({ name: 'real-time end points', type: 'scatter', symbolSize: 9, itemStyle: { color: '#A23B2A' }, data: (o.xAxis as { data: string[] }).data.map((p) => (rt.has(p) ? rt.get(p) : null)) });
+                (o.series as unknown[]).push({ name: 'real-time end points', type: 'scatter', symbolSize: 9, itemStyle: { color: '#A23B2A' }, data: (o.xAxis as unknown as { data: string[] }).data.map((p) => (rt.has(p) ? rt.get(p) : null)) });
                 return o;
               })()}
               height={300}
