@@ -47,6 +47,8 @@ export interface ExportColumn {
   header: string;
   /** 'text' cells are made safe; 'number' cells are written as numbers (empty when missing). */
   kind: 'text' | 'number';
+  /** Computed numbers: written to this many significant digits (stored values keep their shortest round-trip form). */
+  digits?: number;
 }
 
 export interface ExportTable {
@@ -55,19 +57,28 @@ export interface ExportTable {
   /** Lines of context (title, source, vintage stamp, method, caution) for the XLSX "About" sheet. */
   about?: [string, string][];
   sheetName?: string;
+  /**
+   * CSV only: write `about` as commented lines ("# Title: …") above the header, which spreadsheet
+   * programs show as text and pandas skips with comment='#'. Off for files that load back as vintages.
+   */
+  csvAbout?: boolean;
 }
 
-function cell(kind: ExportColumn['kind'], v: string | number | null) {
+function cell(col: ExportColumn, v: string | number | null) {
   if (v === null || v === undefined) return '';
-  if (kind === 'number') return typeof v === 'number' && Number.isFinite(v) ? v : '';
+  if (col.kind === 'number') return typeof v === 'number' && Number.isFinite(v) ? (col.digits ? Number(v.toPrecision(col.digits)) : v) : '';
   return safeText(String(v));
 }
 
+/** A commented line: no line breaks, and no "#" after the first (pandas cuts a line at its comment character). */
+const comment = (k: string, v: string) => `# ${k}: ${v}`.replace(/[\r\n]+/g, ' ').replace(/(?!^)#/g, '№');
+
 export function toCsv(table: ExportTable): string {
   const kinds = table.columns.map((c) => c.kind);
+  const head = table.csvAbout && table.about?.length ? table.about.map(([k, v]) => comment(k, safeText(v))).join('\n') + '\n' : '';
   const lines = [csvLine(table.columns.map((c) => c.header))];
-  for (const r of table.rows) lines.push(csvLine(r, kinds));
-  return lines.join('\n') + '\n';
+  for (const r of table.rows) lines.push(csvLine(r.map((v, i) => (table.columns[i].kind === 'number' ? cell(table.columns[i], v) : v)), kinds));
+  return head + lines.join('\n') + '\n';
 }
 
 export async function toXlsx(table: ExportTable): Promise<Buffer> {
@@ -76,11 +87,10 @@ export async function toXlsx(table: ExportTable): Promise<Buffer> {
   wb.created = new Date();
   const ws = wb.addWorksheet(table.sheetName ?? 'Observations');
   ws.addRow(table.columns.map((c) => safeText(c.header))).font = { bold: true };
-  for (const r of table.rows) ws.addRow(r.map((v, i) => (cell(table.columns[i].kind, v) === '' ? null : cell(table.columns[i].kind, v))));
+  for (const r of table.rows) ws.addRow(r.map((v, i) => (cell(table.columns[i], v) === '' ? null : cell(table.columns[i], v))));
+  // Numbers keep the General format: a cell shows the value as stored, not padded or cut to six decimals.
   table.columns.forEach((c, i) => {
-    const col = ws.getColumn(i + 1);
-    col.width = c.kind === 'number' ? 16 : 14;
-    if (c.kind === 'number') col.numFmt = '0.000000';
+    ws.getColumn(i + 1).width = c.kind === 'number' ? 18 : 14;
   });
   ws.views = [{ state: 'frozen', ySplit: 1 }];
   if (table.about?.length) {

@@ -9,6 +9,7 @@ import { conflict } from '../lib/errors.js';
 import { CAUTION_LINE } from '../schemas/cautions.js';
 import type { PublicUser } from '../schemas/people.js';
 import { alignByPeriod } from '../schemas/align.js';
+import { COMPUTED_DIGITS } from '../schemas/numbers.js';
 import { getSeries } from './catalogue/series.js';
 import { observationsOf, resolveVintage, vintageMetadata } from './catalogue/vintages.js';
 import { getExhibit, publicExhibit, type ExhibitDeps } from './exhibits/read.js';
@@ -60,15 +61,33 @@ export async function vintageExport(db: Db, seriesId: number, which: number | 'l
   return buildExport(table, base, format);
 }
 
+/**
+ * Column headers that carry unit and transform: "input, index (100 × log)", "cycle, % of trend
+ * (100 × log)". Computed numbers are written to COMPUTED_DIGITS significant digits.
+ */
+const HOW: Record<string, string> = { none: 'levels', log: 'log', log100: '100 × log' };
+export function decompositionHeaders(transform: string, seriesUnit: string, cycleUnit: string) {
+  const how = HOW[transform] ?? transform;
+  return {
+    input: `input, ${seriesUnit} (${how})`,
+    trend: `trend, ${seriesUnit} (${how})`,
+    cycle: `cycle, ${cycleUnit} (${how})`,
+  };
+}
+const computed = (header: string) => ({ header, kind: 'number' as const, digits: COMPUTED_DIGITS });
+const PRECISION_NOTE = `computed values to ${COMPUTED_DIGITS} significant digits; loaded values as stored`;
+
 /** A study's numbers with the method line and the vintage stamp on every row. */
 export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx'): Promise<ExportFile> {
   const r = await studyResult(db, studyId);
+  const h = decompositionHeaders(r.transform, r.series.unit, r.unitOfCycle);
   const table: ExportTable = {
+    csvAbout: true,
     columns: [
       { header: 'period', kind: 'text' },
-      { header: `input (${r.transform === 'none' ? r.series.unit : r.transform})`, kind: 'number' },
-      { header: 'trend', kind: 'number' },
-      { header: `cycle (${r.unitOfCycle})`, kind: 'number' },
+      computed(h.input),
+      computed(h.trend),
+      computed(h.cycle),
       { header: 'method', kind: 'text' },
       { header: 'vintage', kind: 'text' },
     ],
@@ -78,8 +97,11 @@ export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx
       ['Series', `${r.series.code}: ${r.series.title}`],
       ['Unit', r.series.unit],
       ['Source', r.series.source],
+      ['Transform', HOW[r.transform] ?? r.transform],
+      ['Cycle unit', r.unitOfCycle],
       ['Method', r.methodLine],
       ['Vintage', r.vintageStamp],
+      ['Numbers', PRECISION_NOTE],
       ['Caution', CAUTION_LINE],
     ],
   };
@@ -93,25 +115,33 @@ export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; 
   const name = 'slug' in ex ? `exhibit-${ex.slug}` : `exhibit-${ex.id}-r${ex.revision}`;
   if (!snap) throw conflict('no_content', 'This exhibit has no data to download yet.');
   const aligned = alignByPeriod(snap.lines);
+  const transform = snap.transform ?? snap.studies[0]?.transform ?? 'none';
+  const h = decompositionHeaders(transform, snap.series[0]?.unit ?? '', snap.text.units ?? '');
   const table: ExportTable = {
     sheetName: 'Data',
+    csvAbout: true,
     columns: [
       { header: 'period', kind: 'text' as const },
-      ...snap.lines.map((l) => ({ header: snap.chartKind === 'compare' ? l.label : l.role === 'cycle' ? `cycle (${snap.text.units ?? ''})`.replace(' ()', '') : l.role, kind: 'number' as const })),
+      ...snap.lines.map((l) => computed(snap.chartKind === 'compare' ? `${l.label}, ${snap.text.units ?? ''}`.replace(/, $/, '') : h[l.role])),
       { header: 'vintage', kind: 'text' as const },
       { header: 'method', kind: 'text' as const },
     ],
     rows: aligned.periods.map((p, i) => [p, ...aligned.values.map((v) => v[i]), snap.vintageStamp, snap.methodLine]),
     about: [
+      ...(snap.publication?.number ? ([['Number', snap.publication.number]] as [string, string][]) : []),
       ['Exhibit', snap.text.title],
       ['Subtitle', snap.text.subtitle ?? ''],
       ['Units', snap.text.units ?? ''],
-      ['Source', snap.text.sourceLine ?? ''],
+      ['Transform', HOW[transform] ?? transform],
+      ['Source', snap.publication?.sourceLine ?? snap.text.sourceLine ?? ''],
       ['Vintage', snap.vintageStamp],
       ['Method', snap.methodLine],
+      ...(snap.chronology ? ([['Chronology', `contractions shaded from the ${snap.chronology.name} (${snap.chronology.area})`]] as [string, string][]) : []),
+      ['Numbers', PRECISION_NOTE],
       ['Status', `${ex.status}${snap.frozenAt ? `, frozen ${snap.frozenAt}` : ' (draft: live data)'}`],
       ['Software', `${snap.software.name} ${snap.software.version}`],
       ['Caution', snap.caution],
+      ...(snap.publication?.institution ? ([['Institution', snap.publication.institution]] as [string, string][]) : []),
     ],
   };
   return buildExport(table, name, format);

@@ -2,6 +2,7 @@
  * Revisions between vintages: period by period between two vintages (with danfojs summaries), and
  * the revision triangle (periods down, vintages across).
  */
+import { revisionOf } from '../../schemas/numbers.js';
 import * as dfd from 'danfojs';
 import type { Db } from '../../db.js';
 import { alignByPeriod, type PeriodLine } from '../../schemas/align.js';
@@ -21,7 +22,7 @@ export function compareVintages(a: PeriodLine, b: PeriodLine): { rows: RevisionR
     if (!inA[i]) status = 'new';
     else if (!inB[i]) status = 'removed';
     else status = from === to ? 'unchanged' : 'revised';
-    const revision = status === 'revised' && from !== null && to !== null ? to - from : null;
+    const revision = status === 'revised' && from !== null && to !== null ? revisionOf(from, to) : null;
     return { period, from: inA[i] ? from : null, to: inB[i] ? to : null, revision, percent: revision !== null && from ? (100 * revision) / Math.abs(from) : null, status };
   });
   const revs = rows.filter((r) => r.revision !== null).map((r) => r.revision!);

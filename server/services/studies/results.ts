@@ -14,8 +14,15 @@ import { runSpec } from './spec.js';
 import { getStudy } from './studies.js';
 
 
+/**
+ * The unit of the cycle, from the transform and the series' unit: a logged series' gap is a
+ * percent deviation from trend (100 × log) or log points; a series in percent (a rate, a ratio to
+ * GDP) decomposed as it is has its gap in percentage points; otherwise the series' own unit.
+ */
 export function cycleUnit(transform: string, unit: string) {
-  return transform === 'log100' ? '% of trend' : transform === 'log' ? 'log points' : unit;
+  if (transform === 'log100') return '% of trend';
+  if (transform === 'log') return 'log points';
+  return /%|percent/i.test(unit) ? 'percentage points' : unit;
 }
 
 export async function computeSpec(db: Db, spec: StudySpec): Promise<StudyResult> {

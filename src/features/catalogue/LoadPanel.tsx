@@ -2,6 +2,8 @@ import { useState } from 'react';
 import { Chart } from '@/components/charts/Chart';
 import { vintagesChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
+import { asLoaded } from '@schemas/numbers';
+import { revisionCell } from './RevisionsPanel';
 import { DataTable, hiddenHeader } from '@/components/DataTable';
 import { ErrorNote, Field, Progress } from '@/components/ui';
 import type { UploadProgress } from '@/lib/upload';
@@ -135,9 +137,9 @@ export function LoadPanel({ series, onStored }: { series: Series & { vintageCoun
                   columns={[
                     { accessorKey: 'period', header: 'Period' },
                     { accessorKey: 'status', header: 'Change' },
-                    { accessorKey: 'from', header: `Now (${series.unit})`, meta: { numeric: true }, cell: (c) => (c.getValue() === null ? '—' : fmt(c.getValue() as number)) },
-                    { accessorKey: 'to', header: `File (${series.unit})`, meta: { numeric: true }, cell: (c) => (c.getValue() === null ? '—' : fmt(c.getValue() as number)) },
-                    { accessorKey: 'revision', header: 'Revision', meta: { numeric: true }, cell: (c) => (c.getValue() === null ? '—' : fmt(c.getValue() as number)) },
+                    { accessorKey: 'from', header: `Now (${series.unit})`, meta: { numeric: true }, cell: (c) => asLoaded(c.getValue() as number | null) },
+                    { accessorKey: 'to', header: `File (${series.unit})`, meta: { numeric: true }, cell: (c) => asLoaded(c.getValue() as number | null) },
+                    { accessorKey: 'revision', header: `Revision (${series.unit})`, meta: { numeric: true }, cell: (c) => revisionCell(c.row.original) },
                   ]}
                 />
               </div>

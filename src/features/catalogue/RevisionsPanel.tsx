@@ -2,6 +2,7 @@ import { useEffect, useMemo, useState } from 'react';
 import { Chart } from '@/components/charts/Chart';
 import { revisionBars, vintagesChart } from '@/components/charts/options';
 import { fmt, vintageColor } from '@/components/charts/echarts';
+import { asLoaded, decimalsOf } from '@schemas/numbers';
 import { DataTable } from '@/components/DataTable';
 import { ScrollRegion } from '@/components/ScrollRegion';
 import { EmptyState, ErrorNote, Spinner } from '@/components/ui';
@@ -87,9 +88,9 @@ export function RevisionsPanel({ id, unit }: { id: number; unit: string }) {
           columns={[
             { accessorKey: 'period', header: 'Period' },
             { accessorKey: 'status', header: 'Change' },
-            { accessorKey: 'from', header: `Vintage ${from} (${unit})`, meta: { numeric: true }, cell: (c) => num(c.getValue()) },
-            { accessorKey: 'to', header: `Vintage ${to} (${unit})`, meta: { numeric: true }, cell: (c) => num(c.getValue()) },
-            { accessorKey: 'revision', header: `Revision (${unit})`, meta: { numeric: true }, cell: (c) => num(c.getValue()) },
+            { accessorKey: 'from', header: `Vintage ${from} (${unit})`, meta: { numeric: true }, cell: (c) => asLoaded(c.getValue() as number | null) },
+            { accessorKey: 'to', header: `Vintage ${to} (${unit})`, meta: { numeric: true }, cell: (c) => asLoaded(c.getValue() as number | null) },
+            { accessorKey: 'revision', header: `Revision (${unit})`, meta: { numeric: true }, cell: (c) => revisionCell(c.row.original) },
             { accessorKey: 'percent', header: 'Revision (%)', meta: { numeric: true }, cell: (c) => num(c.getValue(), 2) },
           ]}
         />
@@ -99,6 +100,12 @@ export function RevisionsPanel({ id, unit }: { id: number; unit: string }) {
 }
 
 const num = (v: unknown, d?: number) => (v === null || v === undefined ? '—' : fmt(v as number, d));
+
+/** A revision with the decimals of the values it compares, so that from + revision = to on screen. */
+export function revisionCell(r: { from: number | null; to: number | null; revision: number | null }) {
+  if (r.revision === null) return '—';
+  return asLoaded(r.revision, Math.max(r.from === null ? 0 : decimalsOf(r.from), r.to === null ? 0 : decimalsOf(r.to)));
+}
 
 function Triangle({ id, unit }: { id: number; unit: string }) {
   const tri = useTriangle(id, true);
@@ -130,7 +137,7 @@ function Triangle({ id, unit }: { id: number; unit: string }) {
                 const changed = i > 0 && prev !== null && v !== null && prev !== v;
                 return (
                   <td key={i} className={`num px-3 py-1 ${changed ? 'bg-above-light' : ''}`}>
-                    {num(v)}
+                    {asLoaded(v)}
                   </td>
                 );
               })}

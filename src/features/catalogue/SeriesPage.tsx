@@ -3,7 +3,7 @@ import { FREQUENCY_LABELS } from '@schemas/frequency';
 import { SA_LABELS } from '@schemas/catalogue';
 import { Chart } from '@/components/charts/Chart';
 import { levelChart } from '@/components/charts/options';
-import { fmt } from '@/components/charts/echarts';
+import { asLoaded } from '@schemas/numbers';
 import { DataTable } from '@/components/DataTable';
 import { ScrollRegion } from '@/components/ScrollRegion';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner, Tabs } from '@/components/ui';
@@ -93,7 +93,7 @@ function Overview({ id, unit, hasVintages }: { id: number; unit: string; hasVint
           data={rows}
           columns={[
             { accessorKey: 'period', header: 'Period' },
-            { accessorKey: 'value', header: unit, meta: { numeric: true }, cell: (c) => (c.getValue() === null ? '—' : fmt(c.getValue() as number)) },
+            { accessorKey: 'value', header: unit, meta: { numeric: true }, cell: (c) => asLoaded(c.getValue() as number | null) },
           ]}
         />
       </ScrollRegion>
