@@ -77,6 +77,9 @@ export interface PanelData {
   /** The single study's full result (kind "study"). */
   result?: StudyResult;
   unit: string;
+  /** Periods at the end that will be revised (the longest of the lines' two-sided estimates), shaded. */
+  endOfSamplePeriods: number;
+  cautions: string[];
   methodLines: string[];
   vintageStamps: string[];
   series: { id: number; code: string; title: string; unit: string; source: string }[];

@@ -27,6 +27,8 @@ export function studySchemas(method: z.ZodType<string> = methodIdSchema) {
     /** Index of the item the cross-correlations are measured against. */
     reference: z.number().int().min(0).default(0),
     maxLag: z.number().int().min(0).max(24).default(8),
+    /** A common frequency for series of different frequencies (higher ones are averaged into it). */
+    frequency: z.enum(['A', 'Q', 'M']).optional(),
   });
   return { studySpecSchema, createStudySchema, updateStudySchema, compareSchema };
 }
@@ -82,6 +84,8 @@ export interface StudyResult {
   endOfSamplePeriods: number;
   cautions: string[];
   unitOfCycle: string;
+  /** Set when the data were averaged into a lower frequency before decomposing (comparisons). */
+  aggregated?: { from: Frequency; to: Frequency; how: 'average' };
 }
 
 /** POST /studies/compare: cycles on aligned periods, with statistics and cross-correlations against the reference. */
@@ -89,6 +93,10 @@ export interface CompareResult {
   periods: string[];
   reference: number;
   mixedFrequencies: boolean;
+  /** The frequency the lines are compared on. */
+  frequency: Frequency;
+  /** What was averaged into the common frequency, said on the chart ("X: monthly values averaged into quarterly periods"). */
+  aggregated: string[];
   items: {
     label: string;
     seriesId: number;
@@ -100,6 +108,8 @@ export interface CompareResult {
     methodLine: string;
     vintageStamp: string;
     unitOfCycle: string;
+    twoSided: boolean;
+    endOfSamplePeriods: number;
     cycle: (number | null)[];
     statistics: Record<string, number | null>;
     crossCorrelations: { lag: number; r: number | null; n: number }[];

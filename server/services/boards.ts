@@ -5,7 +5,7 @@
  */
 import type { Knex } from 'knex';
 import type { Db } from '../db.js';
-import { conflict, forbidden, notFound } from '../lib/errors.js';
+import { badRequest, conflict, forbidden, notFound } from '../lib/errors.js';
 import type { PublicUser } from '../schemas/people.js';
 import type { Board, Panel, PanelBody, PanelData } from '../schemas/boards.js';
 export type { Board, Panel, PanelData };
@@ -87,7 +87,20 @@ export async function deleteBoard(db: Db, user: PublicUser, id: number) {
 }
 
 async function checkStudies(db: Db, ids: number[]) {
-  for (const id of ids) await getStudy(db, id);
+  const studies = [];
+  for (const id of ids) studies.push(await getStudy(db, id));
+  const frequencies = [...new Set(studies.map((s) => s.series.frequency))];
+  if (frequencies.length > 1) {
+    throw badRequest('mixed_frequencies', `These studies are on series of different frequencies (${studies.map((s) => `${s.series.code}: ${s.series.frequency}`).join(', ')}); a panel compares series of one frequency. Compare them on a common frequency in a study’s Compare view.`);
+  }
+}
+
+/** A line's name: the method when the series are the same, the series when the methods are, both otherwise. */
+function lineLabel(results: StudyResult[], r: StudyResult) {
+  const method = r.methodLine.split(';')[0];
+  const oneSeries = new Set(results.map((x) => x.series.id)).size === 1;
+  const oneMethod = new Set(results.map((x) => x.methodLine.split(';')[0])).size === 1;
+  return oneSeries ? method : oneMethod ? r.series.code : `${r.series.code} · ${method}`;
 }
 
 export async function addPanel(db: Db, user: PublicUser, boardId: number, body: PanelBody) {
@@ -173,12 +186,13 @@ export async function panelData(db: Db, panel: Panel): Promise<PanelData> {
       lines.push({ label: `vintage ${v} (${r.asOf})`, studyId: s.id, periods: r.periods, values: r.cycle, vintage: v, methodLine: r.methodLine });
     }
   } else {
-    for (const s of studies) {
-      const r = await computeSpec(db, s);
-      results.push(r);
-      const label = panel.compareBy === 'series' ? s.series.code : panel.compareBy === 'methods' ? r.methodLine.split(';')[0] : s.title;
+    for (const s of studies) results.push(await computeSpec(db, s));
+    studies.forEach((s, k) => {
+      const r = results[k];
+      const label = panel.kind === 'compare' ? lineLabel(results, r) : s.title;
       lines.push({ label, studyId: s.id, periods: r.periods, values: r.cycle, vintage: r.vintage, methodLine: r.methodLine });
-    }
+    });
+    if (new Set(results.map((r) => r.frequency)).size > 1) throw conflict('mixed_frequencies', 'This panel compares series of different frequencies; change its studies so that they share one frequency.');
   }
   const freshness = [];
   for (const s of studies) {
@@ -203,7 +217,9 @@ export async function panelData(db: Db, panel: Panel): Promise<PanelData> {
     compareBy: panel.compareBy,
     lines,
     result: panel.kind === 'study' ? results[0] : undefined,
-    unit: results[0]?.unitOfCycle ?? '',
+    unit: [...new Set(results.map((r) => r.unitOfCycle))].join(' · '),
+    endOfSamplePeriods: Math.max(0, ...results.map((r) => r.endOfSamplePeriods)),
+    cautions: results[0]?.cautions ?? [],
     methodLines: [...new Set(results.map((r) => r.methodLine))],
     vintageStamps: [...new Set(results.map((r) => `${r.series.code}: ${r.vintageStamp}`))],
     series: [...seriesSeen.values()],

@@ -77,7 +77,7 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
     series: data.series,
     lines: data.lines.map((l) => ({ label: l.label, role: 'cycle' as const, periods: l.periods, values: l.values })),
     studies,
-    endOfSamplePeriods: 0,
+    endOfSamplePeriods: data.endOfSamplePeriods,
     methodLine: data.methodLines.join(' · '),
     vintageStamp: data.vintageStamps.join(' · '),
   };

@@ -8,7 +8,8 @@ import type { Db } from '../../db.js';
 import { finiteOrNull, finiteRecord } from '../../lib/numbers.js';
 import { alignByPeriod } from '../../schemas/align.js';
 import { CAUTIONS } from '../../schemas/cautions.js';
-import { PERIODS_PER_YEAR } from '../../schemas/frequency.js';
+import { FREQUENCY_LABELS, PERIODS_PER_YEAR, type Frequency } from '../../schemas/frequency.js';
+import { badRequest } from '../../lib/errors.js';
 import type { CompareBody, CompareResult, StudyResult, StudySpec } from '../../schemas/studies.js';
 import { runSpec } from './spec.js';
 import { getStudy } from './studies.js';
@@ -25,8 +26,8 @@ export function cycleUnit(transform: string, unit: string) {
   return /%|percent/i.test(unit) ? 'percentage points' : unit;
 }
 
-export async function computeSpec(db: Db, spec: StudySpec): Promise<StudyResult> {
-  const { data, result: r } = await runSpec(db, spec);
+export async function computeSpec(db: Db, spec: StudySpec, opts: { frequency?: Frequency } = {}): Promise<StudyResult> {
+  const { data, result: r, aggregated } = await runSpec(db, spec, opts);
   const stats = cycleStatistics(r.cycle, r.frequency);
   const tps = turningPoints(r.cycle, r.frequency);
   const twoSided = findMethod(r.method)!.twoSided;
@@ -56,6 +57,7 @@ export async function computeSpec(db: Db, spec: StudySpec): Promise<StudyResult>
     endOfSamplePeriods: twoSided ? 2 * PERIODS_PER_YEAR[r.frequency] : 0,
     cautions: [...CAUTIONS],
     unitOfCycle: cycleUnit(r.transform, data.series.unit),
+    ...(aggregated ? { aggregated: { ...aggregated, how: 'average' as const } } : {}),
   };
 }
 
@@ -67,10 +69,31 @@ export async function studyResult(db: Db, id: number) {
 
 // ------------------------------------------------------------------ comparisons
 
+/**
+ * Series of different frequencies are compared on a common frequency the person chooses (higher
+ * frequencies averaged into it), or refused with a message that says so: one period axis, one
+ * convention for λ, statistics on the same periods.
+ */
+async function commonFrequency(db: Db, body: CompareBody): Promise<Frequency | undefined> {
+  const rows: { id: number; code: string; frequency: Frequency }[] = await db('series').whereIn('id', [...new Set(body.items.map((i) => i.seriesId))]).select('id', 'code', 'frequency');
+  const kinds = [...new Set(rows.map((r) => r.frequency))];
+  if (body.frequency) {
+    const lower = rows.filter((r) => PERIODS_PER_YEAR[r.frequency] < PERIODS_PER_YEAR[body.frequency!]);
+    if (lower.length) throw badRequest('frequency_too_high', `${lower.map((r) => r.code).join(', ')} ${lower.length > 1 ? 'are' : 'is'} ${FREQUENCY_LABELS[lower[0].frequency]}: compare on a ${FREQUENCY_LABELS[lower[0].frequency]} or lower frequency.`);
+    return body.frequency;
+  }
+  if (kinds.length > 1) {
+    const by = kinds.map((f) => `${FREQUENCY_LABELS[f]}: ${rows.filter((r) => r.frequency === f).map((r) => r.code).join(', ')}`).join('; ');
+    throw badRequest('mixed_frequencies', `These series have different frequencies (${by}). Choose a common frequency to compare them on (higher frequencies are then averaged into it), or compare series of one frequency.`, { frequencies: Object.fromEntries(rows.map((r) => [r.code, r.frequency])) });
+  }
+  return undefined;
+}
+
 export async function compare(db: Db, body: CompareBody): Promise<CompareResult> {
+  const frequency = await commonFrequency(db, body);
   const results: (StudyResult & { label: string })[] = [];
   for (const item of body.items) {
-    const r = await computeSpec(db, item);
+    const r = await computeSpec(db, item, { frequency });
     results.push({ label: item.label ?? `${r.series.code} · ${r.methodLine}`, ...r });
   }
   const { periods: all, values: cycles } = alignByPeriod(results.map((r) => ({ periods: r.periods, values: r.cycle })));
@@ -82,6 +105,8 @@ export async function compare(db: Db, body: CompareBody): Promise<CompareResult>
     periods: all,
     reference: ref,
     mixedFrequencies: frequencies.size > 1,
+    frequency: results[0]?.frequency ?? 'Q',
+    aggregated: results.filter((r) => r.aggregated).map((r) => `${r.series.code}: ${FREQUENCY_LABELS[r.aggregated!.from]} values averaged into ${FREQUENCY_LABELS[r.aggregated!.to]} periods`),
     items: results.map((r, k) => {
       const c = toNaN(cycles[k]);
       const stats = cycleStatistics(c, r.frequency, k === ref ? undefined : refCycle);
@@ -96,6 +121,8 @@ export async function compare(db: Db, body: CompareBody): Promise<CompareResult>
         methodLine: r.methodLine,
         vintageStamp: r.vintageStamp,
         unitOfCycle: r.unitOfCycle,
+        twoSided: r.twoSided,
+        endOfSamplePeriods: r.endOfSamplePeriods,
         cycle: cycles[k],
         statistics: finiteRecord(stats),
         crossCorrelations: frequencies.size > 1 ? [] : crossCorrelations(c, refCycle, body.maxLag).map((x) => ({ ...x, r: finiteOrNull(x.r) })),

@@ -1,12 +1,21 @@
 /** A study's specification run on its stored series: the check behind saving, and the start of every result. */
+import { aggregateByAverage } from '../../analysis/aggregate.js';
 import { decompose } from '../../analysis/index.js';
 import type { Db } from '../../db.js';
+import type { Frequency } from '../../schemas/frequency.js';
 import type { StudySpec } from '../../schemas/studies.js';
 import { readSeriesValues } from '../catalogue/stored-values.js';
 
-/** Runs a specification on its stored series: the data and the decomposition (AnalysisError → 400). */
-export async function runSpec(db: Db, spec: StudySpec) {
-  const data = await readSeriesValues(db, spec.seriesId, spec.vintage);
-  const r = decompose({ frequency: data.series.frequency, start: data.start ?? undefined, values: data.values, transform: spec.transform, method: spec.method, params: spec.params });
-  return { params: r.params, data, result: r };
+/**
+ * Runs a specification on its stored series: the data and the decomposition (AnalysisError → 400).
+ * With `frequency` below the series' own, the data are first averaged into that frequency
+ * (a comparison of series of different frequencies on a common one).
+ */
+export async function runSpec(db: Db, spec: StudySpec, opts: { frequency?: Frequency } = {}) {
+  const stored = await readSeriesValues(db, spec.seriesId, spec.vintage);
+  const to = opts.frequency ?? stored.series.frequency;
+  const data = to === stored.series.frequency ? stored : { ...stored, ...aggregateByAverage(stored.periods, stored.values, stored.series.frequency, to) };
+  const start = to === stored.series.frequency ? (data.start ?? undefined) : data.periods[0];
+  const r = decompose({ frequency: to, start, values: data.values, transform: spec.transform, method: spec.method, params: spec.params });
+  return { params: r.params, data: { ...data, start: start ?? null }, result: r, aggregated: to !== stored.series.frequency ? { from: stored.series.frequency, to } : null };
 }

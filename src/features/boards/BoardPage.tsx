@@ -7,6 +7,7 @@ import { useMe } from '@/features/auth/api';
 import { useVintages } from '@/features/catalogue/api';
 import { useStudies } from '@/features/studies/api';
 import { useBoard, useBoardMutations, usePanelData, type Panel } from './api';
+import { API } from '@/lib/api';
 import { ACCESS, allows } from '@schemas/access';
 
 const HEIGHTS = { s: 200, m: 290, l: 420 } as const;
@@ -35,11 +36,19 @@ export function BoardPage() {
         kicker={<Link to="/boards" className="hover:underline">Boards</Link>}
         title={b.title}
         actions={
-          owner && (
-            <button className="btn" onClick={() => setAdding(!adding)} aria-expanded={adding}>
-              {adding ? 'Close' : 'Add a panel'}
-            </button>
-          )
+          <>
+            <a className="btn-quiet" href={`${API}/boards/${id}/pack.pdf`} download title="One PDF of the board’s published exhibits, numbered in order">
+              Publication pack (PDF)
+            </a>
+            <a className="btn-quiet" href={`${API}/boards/${id}/pack.zip`} download title="The data files of the board’s published exhibits">
+              Data files (ZIP)
+            </a>
+            {owner && (
+              <button className="btn" onClick={() => setAdding(!adding)} aria-expanded={adding}>
+                {adding ? 'Close' : 'Add a panel'}
+              </button>
+            )}
+          </>
         }
       >
         Composed by {b.owner.name} · {b.visibility === 'team' ? 'shared with the team' : 'private'}
@@ -98,11 +107,11 @@ function PanelCard({
       return cycleChart({ periods: r.periods, cycle: r.cycle, unit: r.unitOfCycle, turningPoints: r.turningPoints, shadeLast: r.endOfSamplePeriods });
     }
     const lines = d.lines.map((l) => ({ name: l.label, periods: l.periods, values: l.values }));
-    // Vintages keep their violet ramp, oldest lightest and the newest labelled.
-    return d.compareBy === 'vintages' ? vintagesChart({ unit: d.unit, lines }) : compareChart({ zeroLine: true, unit: d.unit, lines });
+    // Vintages keep their violet ramp, oldest lightest and the newest labelled; comparisons shade the end of sample too.
+    return d.compareBy === 'vintages' ? vintagesChart({ unit: d.unit, lines, shadeLast: d.endOfSamplePeriods }) : compareChart({ zeroLine: true, unit: d.unit, lines, shadeLast: d.endOfSamplePeriods });
   }, [data.data]);
   return (
-    <article className={`card flex flex-col p-3 ${panel.width === 2 ? 'md:col-span-2' : ''}`} data-testid="board-panel" aria-label={panel.title}>
+    <article className={`card flex min-w-0 flex-col p-3 ${panel.width === 2 ? 'md:col-span-2' : ''}`} data-testid="board-panel" aria-label={panel.title}>
       <header className="flex items-start justify-between gap-2">
         <div>
           <h2 className="font-heading text-base font-bold">{panel.title}</h2>
@@ -147,6 +156,7 @@ function PanelCard({
             </p>
           ))}
           <p>{data.data.methodLines.join(' · ')}</p>
+          {data.data.endOfSamplePeriods > 0 && <p className="text-alert" data-testid="panel-caution">{data.data.cautions[0]}</p>}
           {panel.compareBy === 'vintages' || !data.data.freshness.length ? <p>{data.data.vintageStamps.join(' · ')}</p> : null}
           {canDraft && (
             <Link className="text-trend underline" to={`/exhibits/new?panelId=${panel.id}&title=${encodeURIComponent(panel.title)}`}>
@@ -169,7 +179,7 @@ function PanelForm({ boardId, onDone }: { boardId: number; onDone: () => void })
   const [vintages, setVintages] = useState<number[]>([]);
   const [width, setWidth] = useState<1 | 2>(1);
   const first = studies.data?.find((s) => s.id === ids[0]);
-  const v = useVintages(first?.seriesId ?? 0);
+  const v = useVintages(first?.seriesId);
   const acrossVintages = ids.length === 1 && compareBy === 'vintages';
   const submit = () =>
     addPanel.mutate(

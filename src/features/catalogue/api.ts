@@ -8,7 +8,8 @@ export type Problem = FileProblem;
 
 export const useSeriesList = () => useQuery({ queryKey: ['series'], queryFn: () => api<{ items: SeriesListItem[] }>('/series').then((r) => r.items) });
 export const useSeries = (id: number) => useQuery({ queryKey: ['series', id], queryFn: () => api<Series & { vintageCount: number; latestVintage: Vintage | null }>(`/series/${id}`) });
-export const useVintages = (id: number) => useQuery({ queryKey: ['series', id, 'vintages'], queryFn: () => api<{ items: Vintage[] }>(`/series/${id}/vintages`).then((r) => r.items) });
+/** A series' vintages; nothing is asked before a series is chosen (no request for series 0). */
+export const useVintages = (id: number | undefined) => useQuery({ queryKey: ['series', id, 'vintages'], queryFn: () => api<{ items: Vintage[] }>(`/series/${id}/vintages`).then((r) => r.items), enabled: !!id && id > 0 });
 export const useObservations = (id: number, vintage: number | 'latest', enabled = true) =>
   useQuery({
     queryKey: ['series', id, 'observations', vintage],

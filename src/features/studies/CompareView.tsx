@@ -1,5 +1,6 @@
 import { useMemo, useState } from 'react';
-import type { Frequency } from '@schemas/frequency';
+import { CAUTIONS } from '@schemas/cautions';
+import { FREQUENCY_LABELS, PERIODS_PER_YEAR, type Frequency } from '@schemas/frequency';
 import type { StudySpec } from '@schemas/studies';
 import { Chart } from '@/components/charts/Chart';
 import { compareChart } from '@/components/charts/options';
@@ -17,19 +18,41 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
   const described = (id: string) => catalogue.find((m) => m.id === id);
   const [others, setOthers] = useState<number[]>([]);
   const [reference, setReference] = useState(0);
+  const [common, setCommon] = useState<Frequency | ''>('');
   const list = useSeriesList();
+  const code = list.data?.find((x) => x.id === spec.seriesId)?.code ?? 'this series';
+  // Frequencies of the lines: when they differ, the person chooses a common one (or the server refuses).
+  const chosen = mode === 'series' ? [spec.seriesId, ...others].map((id) => list.data?.find((x) => x.id === id)?.frequency ?? frequency) : [frequency];
+  const mixed = new Set(chosen).size > 1;
+  const lowest = [...chosen].sort((a, b) => PERIODS_PER_YEAR[a] - PERIODS_PER_YEAR[b])[0];
+  const target = mixed && common ? common : undefined;
   const items = useMemo(() => {
     if (mode === 'methods') {
-      return methods.map((m) => ({ seriesId: spec.seriesId, vintage: spec.vintage, transform: spec.transform, method: m, params: m === spec.method ? spec.params : { ...(described(m)?.initial[frequency] ?? {}) }, label: described(m)?.name ?? m }));
+      return methods.map((m) => ({ seriesId: spec.seriesId, vintage: spec.vintage, transform: spec.transform, method: m, params: m === spec.method ? spec.params : { ...(described(m)?.initial[frequency] ?? {}) }, label: `${code} · ${described(m)?.name ?? m}` }));
     }
     return [spec.seriesId, ...others].map((id) => {
       const s = list.data?.find((x) => x.id === id);
-      const sameFreq = s?.frequency === frequency;
-      return { seriesId: id, vintage: id === spec.seriesId ? spec.vintage : ('latest' as const), transform: /percent|rate/i.test(s?.unit ?? '') ? ('none' as const) : spec.transform, method: spec.method, params: sameFreq ? spec.params : { ...(described(spec.method)?.initial[s?.frequency ?? frequency] ?? {}) }, label: s?.code ?? String(id) };
+      // Parameters follow the frequency the line is decomposed at: its own, or the common one chosen.
+      const at = target ?? s?.frequency ?? frequency;
+      return { seriesId: id, vintage: id === spec.seriesId ? spec.vintage : ('latest' as const), transform: /percent|rate/i.test(s?.unit ?? '') ? ('none' as const) : spec.transform, method: spec.method, params: at === frequency && s?.id === spec.seriesId ? spec.params : { ...(described(spec.method)?.initial[at] ?? {}) }, label: `${s?.code ?? id} · ${described(spec.method)?.name ?? spec.method}` };
     });
-  }, [mode, methods, others, spec, list.data, frequency, catalogue]);
-  const body = items.length ? { items, reference: Math.min(reference, items.length - 1), maxLag: frequency === 'M' ? 12 : frequency === 'Q' ? 8 : 3 } : null;
+  }, [mode, methods, others, spec, list.data, frequency, catalogue, target, code]);
+  const lagFreq = target ?? frequency;
+  const body = items.length ? { items, reference: Math.min(reference, items.length - 1), maxLag: lagFreq === 'M' ? 12 : lagFreq === 'Q' ? 8 : 3, ...(target ? { frequency: target } : {}) } : null;
   const cmp = useCompare(body);
+  const units = [...new Set(cmp.data?.items.map((it) => it.unitOfCycle) ?? [])];
+  const option = useMemo(
+    () =>
+      cmp.data
+        ? compareChart({
+            zeroLine: true,
+            unit: units.length === 1 ? units[0] : 'units in the legend',
+            shadeLast: Math.max(0, ...cmp.data.items.map((it) => it.endOfSamplePeriods)),
+            lines: cmp.data.items.map((it) => ({ name: units.length === 1 ? it.label : `${it.label} (${it.unitOfCycle})`, periods: cmp.data!.periods, values: it.cycle })),
+          })
+        : null,
+    [cmp.data],
+  );
   return (
     <div className="space-y-4">
       <div className="flex gap-4 text-sm" role="radiogroup" aria-label="What to compare">
@@ -61,7 +84,22 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
             ))}
         </div>
       )}
-      <label className="flex items-center gap-2 text-sm">
+      {mixed && (
+        <label className="flex flex-wrap items-center gap-2 text-sm" data-testid="common-frequency">
+          These series have different frequencies. Compare them on:
+          <select className="field w-auto" value={common} onChange={(e) => setCommon(e.target.value as Frequency | '')} aria-label="Common frequency">
+            <option value="">choose a frequency…</option>
+            {(['A', 'Q'] as Frequency[])
+              .filter((f) => PERIODS_PER_YEAR[f] <= PERIODS_PER_YEAR[lowest])
+              .map((f) => (
+                <option key={f} value={f}>
+                  {FREQUENCY_LABELS[f]} (averages of higher frequencies)
+                </option>
+              ))}
+          </select>
+        </label>
+      )}
+      <label className="flex flex-wrap items-center gap-2 text-sm">
         Reference for cross-correlations:
         <select className="field max-w-xs" value={reference} onChange={(e) => setReference(Number(e.target.value))} aria-label="Reference line">
           {items.map((it, i) => (
@@ -73,18 +111,17 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
       </label>
       {cmp.isPending && body && <Spinner />}
       <ErrorNote error={cmp.error} />
-      {cmp.data && (
+      {cmp.data && option && (
         <>
           <div className="card p-3">
-            <Chart
-              testId="compare-chart"
-              label="Cycles compared"
-              option={compareChart({ zeroLine: true, unit: cmp.data.items[0]?.unitOfCycle, lines: cmp.data.items.map((it) => ({ name: it.label, periods: cmp.data!.periods, values: it.cycle })) })}
-              height={320}
-            />
+            <Chart testId="compare-chart" label="Cycles compared" option={option} height={320} />
+            {cmp.data.aggregated.length > 0 && (
+              <p className="text-xs text-ink-soft" data-testid="compare-aggregated">
+                Compared on {FREQUENCY_LABELS[cmp.data.frequency]} periods: {cmp.data.aggregated.join('; ')}.
+              </p>
+            )}
           </div>
-          {cmp.data.mixedFrequencies && <p className="text-sm text-alert">The lines have different frequencies, so cross-correlations are not computed.</p>}
-          <ScrollRegion label="Statistics and cross-correlations" className="card overflow-x-auto">
+          <ScrollRegion label="Statistics and cross-correlations" className="card max-w-full overflow-x-auto">
             <table className="w-full text-sm" data-testid="compare-table">
               <thead className="bg-paper-deep/60 text-xs text-ink-soft">
                 <tr>
@@ -122,6 +159,9 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
             </table>
             <p className="px-2 py-1 text-xs text-ink-faint">Cross-correlations corr(cₜ, referenceₜ₊ₖ) at leads and lags k: a peak at k &gt; 0 means the line leads the reference by k periods.</p>
           </ScrollRegion>
+          <p className="border-t border-hairline pt-2 text-xs text-alert" data-testid="caution-line">
+            Caution: {CAUTIONS.join(' ')}
+          </p>
         </>
       )}
     </div>

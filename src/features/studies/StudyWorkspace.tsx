@@ -43,7 +43,7 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
   const values = useWatch({ control: form.control });
   const series = list.data?.find((s) => s.id === values.seriesId);
   const frequency = series?.frequency ?? study?.series.frequency ?? 'Q';
-  const vintages = useVintages(values.seriesId ?? 0);
+  const vintages = useVintages(values.seriesId);
   const methods = useMethods();
   const method = methods.data?.methods.find((m) => m.id === (values.method ?? 'hp'));
 
