@@ -79,7 +79,9 @@ function checkParams(method: AnyMethod, frequency: Frequency, given: Record<stri
       issue.code === 'unrecognized_keys'
         ? `${method.name} has no parameter ${(issue as { keys?: string[] }).keys?.join(', ')}; its parameters are ${Object.keys(schema.shape).join(', ')}.`
         : `params.${name || '?'}: ${issue.message}`;
-    throw new AnalysisError('invalid_parameter', message, parsed.error.issues.map((i) => ({ path: `params.${i.path.join('.')}`, message: i.message })));
+    // One problem per parameter: a bad λ fails several checks, but the person needs one sentence.
+    const details = parsed.error.issues.map((i) => ({ path: `params.${i.path.join('.')}`, message: i.message })).filter((d, k, all) => all.findIndex((e) => e.path === d.path) === k);
+    throw new AnalysisError('invalid_parameter', message, details);
   }
   const params = parsed.data as Record<string, ParamValue>;
   const broken = method.check?.(params);

@@ -26,14 +26,16 @@ interface ParamBase {
 /**
  * How a parameter is entered and checked:
  * - `lambda`: a smoothing parameter λ > 0 (slider on a log scale, the presets, the cut-off period);
- *   `orderParam` names the parameter holding the order of the difference penalty (default 2).
+ *   `orderParam` names the parameter holding the order of the difference penalty (default 2);
+ *   `squaredPenalty: false` for a λ that is not the Whittaker/Hodrick–Prescott one (ℓ1 trend
+ *   filtering): no presets and no cut-off period are shown for it.
  * - `number` / `integer`: with bounds; `unit: 'periods'` when it counts periods of the series;
  *   `choices` adds named alternatives to a number (a union number | "auto" | "none").
  * - `enum`: one of the options, each with its label.
  * - `boolean`: a check box.
  */
 export type ParamSpec =
-  | (ParamBase & { kind: 'lambda'; orderParam?: string })
+  | (ParamBase & { kind: 'lambda'; orderParam?: string; squaredPenalty?: boolean })
   | (ParamBase & { kind: 'number'; min?: number; max?: number; step?: number; unit?: 'periods'; choices?: readonly ParamChoice[] })
   | (ParamBase & { kind: 'integer'; min: number; max: number; unit?: 'periods'; choices?: readonly ParamChoice[] })
   | (ParamBase & { kind: 'enum'; options: readonly { value: string | number; label: string }[] })

@@ -80,8 +80,10 @@ export interface StudyResult {
   methodLine: string;
   vintageStamp: string;
   twoSided: boolean;
-  /** Periods at the end of a two-sided estimate that will be revised (two years). */
+  /** Periods at the end of a two-sided estimate that will be revised (two years; none where the filter gives no end values). */
   endOfSamplePeriods: number;
+  /** What the end of the sample means for this method, in words ("no estimate for the first 12 and the last 12 quarters…"). */
+  endNote: string | null;
   cautions: string[];
   unitOfCycle: string;
   /** Set when the data were averaged into a lower frequency before decomposing (comparisons). */

@@ -6,7 +6,8 @@ import { useDocumentTitle } from '@/lib/useDocumentTitle';
 export function ErrorNote({ error, title }: { error: unknown; title?: string }) {
   if (!error) return null;
   const message = error instanceof ApiError || error instanceof Error ? error.message : String(error);
-  const details = error instanceof ApiError && Array.isArray(error.details) ? (error.details as { row?: number; column?: string; path?: string; message: string }[]) : [];
+  // Details the message already says are not repeated under it.
+  const details = error instanceof ApiError && Array.isArray(error.details) ? (error.details as { row?: number; column?: string; path?: string; message: string }[]).filter((d) => !message.includes(d.message)) : [];
   return (
     <div role="alert" className="rounded border border-alert/40 bg-alert-light px-3 py-2 text-sm text-alert">
       {title && <p className="font-semibold">{title}</p>}

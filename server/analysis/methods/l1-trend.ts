@@ -29,7 +29,8 @@ export const l1Trend = defineMethod({
   id: 'l1-trend',
   name: 'ℓ1 trend filtering',
   twoSided: true,
-  params: { lambda: { ...LAMBDA_PARAM, hint: 'Try 10 for quarterly data in 100 × log.' } },
+  // An ℓ1 penalty: λ has no cut-off period and the Hodrick–Prescott presets do not apply.
+  params: { lambda: { ...LAMBDA_PARAM, squaredPenalty: false, hint: 'Try 10 for quarterly data in 100 × log.' } },
   defaults: () => ({}),
   suggested: () => ({ lambda: 10 }),
   minimumLength: () => ({ count: 3 }),

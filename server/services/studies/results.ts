@@ -8,7 +8,7 @@ import type { Db } from '../../db.js';
 import { finiteOrNull, finiteRecord } from '../../lib/numbers.js';
 import { alignByPeriod } from '../../schemas/align.js';
 import { CAUTIONS } from '../../schemas/cautions.js';
-import { FREQUENCY_LABELS, PERIODS_PER_YEAR, type Frequency } from '../../schemas/frequency.js';
+import { FREQUENCY_LABELS, PERIOD_WORD, PERIODS_PER_YEAR, type Frequency } from '../../schemas/frequency.js';
 import { badRequest } from '../../lib/errors.js';
 import type { CompareBody, CompareResult, StudyResult, StudySpec } from '../../schemas/studies.js';
 import { runSpec } from './spec.js';
@@ -24,6 +24,26 @@ export function cycleUnit(transform: string, unit: string) {
   if (transform === 'log100') return '% of trend';
   if (transform === 'log') return 'log points';
   return /%|percent/i.test(unit) ? 'percentage points' : unit;
+}
+
+/**
+ * What the end of the sample means for this result: a two-sided filter's last two years will be
+ * revised (shaded); a filter that gives no value near the ends (Baxter–King loses K periods at
+ * each end) says how many periods it lost instead, and shades nothing it did not estimate.
+ */
+export function endOfSample(input: ArrayLike<number>, cycle: ArrayLike<number>, frequency: Frequency, twoSided: boolean) {
+  const word = PERIOD_WORD[frequency][1];
+  const lost = (from: number, step: number) => {
+    let k = 0;
+    for (let i = from; i >= 0 && i < cycle.length && Number.isFinite(input[i]) && !Number.isFinite(cycle[i]); i += step) k++;
+    return k;
+  };
+  const trailing = lost(cycle.length - 1, -1);
+  const leading = lost(0, 1);
+  const years = 2;
+  if (twoSided && trailing > 0) return { endOfSamplePeriods: 0, endNote: `no estimate for the first ${leading} and the last ${trailing} ${word}: the filter needs ${trailing} ${word} on each side` };
+  if (twoSided) return { endOfSamplePeriods: years * PERIODS_PER_YEAR[frequency], endNote: `last ${years * PERIODS_PER_YEAR[frequency]} ${word} (${years} years): estimates will be revised` };
+  return { endOfSamplePeriods: 0, endNote: null };
 }
 
 export async function computeSpec(db: Db, spec: StudySpec, opts: { frequency?: Frequency } = {}): Promise<StudyResult> {
@@ -54,7 +74,7 @@ export async function computeSpec(db: Db, spec: StudySpec, opts: { frequency?: F
     methodLine: methodLine(r.method, r.params, r.transform, r.diagnostics),
     vintageStamp: `data as of ${data.vintage.asOf}, vintage ${data.vintage.number}`,
     twoSided,
-    endOfSamplePeriods: twoSided ? 2 * PERIODS_PER_YEAR[r.frequency] : 0,
+    ...endOfSample(r.input, r.cycle, r.frequency, twoSided),
     cautions: [...CAUTIONS],
     unitOfCycle: cycleUnit(r.transform, data.series.unit),
     ...(aggregated ? { aggregated: { ...aggregated, how: 'average' as const } } : {}),

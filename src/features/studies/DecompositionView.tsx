@@ -102,9 +102,9 @@ export function DecompositionView({ result, updating, title }: { result: StudyRe
         <ChronologyPicker value={chronologyId} onChange={setChronologyId} />
         <span className="tag" data-testid="method-line">{result.methodLine}</span>
         <span className="tag" data-testid="vintage-stamp">{result.vintageStamp}{result.vintagePin === 'latest' ? ' (follows new loads)' : ' (pinned)'}</span>
-        {result.twoSided && (
-          <span className="tag border-alert bg-alert-light text-alert" data-testid="end-warning" title="Two-sided filters use future data: the last two years will be revised">
-            last two years: estimates will be revised
+        {result.endNote && (
+          <span className="tag border-alert bg-alert-light text-alert" data-testid="end-warning">
+            {result.endNote}
           </span>
         )}
       </div>

@@ -21,16 +21,23 @@ interface Props {
 }
 
 /** λ with a logarithmic slider, a number field, the presets and the equivalent cut-off period. */
-export function LambdaControl({ value, order = 2, frequency, onChange, required, hint }: { value: number | undefined; order?: number; frequency: Frequency; onChange: (v: number | undefined) => void; required?: boolean; hint?: string }) {
-  const cutoff = value && value > 0 ? cutoffPeriod(value, order) : null;
+/** Text for an upper-case label with its Greek letters kept as written (λ would otherwise print as Λ). */
+export function keepGreek(text: string) {
+  return text.split(/([\u0370-\u03FF\u2113]+)/).map((part, i) => (i % 2 ? <span key={i} className="normal-case">{part}</span> : part));
+}
+
+export function LambdaControl({ value, order = 2, frequency, onChange, required, hint, squaredPenalty = true }: { value: number | undefined; order?: number; frequency: Frequency; onChange: (v: number | undefined) => void; required?: boolean; hint?: string; squaredPenalty?: boolean }) {
+  // The cut-off period and the presets belong to the Hodrick–Prescott/Whittaker λ only.
+  const cutoff = squaredPenalty && value && value > 0 ? cutoffPeriod(value, order) : null;
   const words = PERIOD_WORD[frequency];
   const ppy = PERIODS_PER_YEAR[frequency];
-  const presets = lambdaPresets(frequency);
+  // ℓ1 trend filtering's λ has no Hodrick–Prescott presets.
+  const presets = squaredPenalty ? lambdaPresets(frequency) : [];
   return (
     <div className="space-y-2">
       <div className="flex items-end gap-2">
         <label className="flex-1">
-          <span className="label">Smoothing parameter λ{required ? ' (required)' : ''}</span>
+          <span className="label">{keepGreek(`Smoothing parameter λ${required ? ' (required)' : ''}`)}</span>
           <input
             type="number"
             className="field num"
@@ -41,6 +48,7 @@ export function LambdaControl({ value, order = 2, frequency, onChange, required,
             onChange={(e) => onChange(e.target.value === '' ? undefined : Number(e.target.value))}
           />
         </label>
+        {squaredPenalty && (
         <div className="pb-1.5 text-right text-xs text-ink-soft" data-testid="cutoff">
           {cutoff ? (
             <>
@@ -51,6 +59,7 @@ export function LambdaControl({ value, order = 2, frequency, onChange, required,
             'no cut-off above 2 periods'
           )}
         </div>
+        )}
       </div>
       <LambdaSlider value={value} presets={presets.map((p) => p.lambda)} valueText={lambdaValueText(value, cutoff, words[1], ppy)} onChange={onChange} />
       <div className="flex flex-wrap gap-1">
@@ -80,7 +89,7 @@ function ParamField({ spec, value, onChange, frequency }: { spec: ParamDescripti
   if (spec.kind === 'enum') {
     return (
       <label className="block">
-        <span className="label">{spec.label}</span>
+        <span className="label">{keepGreek(spec.label)}</span>
         <select className="field" value={String(value)} onChange={(e) => onChange(spec.options.find((o) => String(o.value) === e.target.value)?.value)}>
           {spec.options.map((o) => (
             <option key={String(o.value)} value={String(o.value)}>
@@ -98,7 +107,7 @@ function ParamField({ spec, value, onChange, frequency }: { spec: ParamDescripti
   return (
     <div className="block">
       <label className="block">
-        <span className="label">{spec.label}</span>
+        <span className="label">{keepGreek(spec.label)}</span>
         {choices.length > 0 && (
           <select className="field mb-1" aria-label={`${spec.label}: kind`} value={named ? named.value : NUMBER} onChange={(e) => onChange(e.target.value === NUMBER ? undefined : e.target.value)}>
             <option value={NUMBER}>a number</option>
@@ -150,6 +159,7 @@ export function ParamsEditor({ method, frequency, params, onChange, errors }: Pr
           onChange={(v) => set(p.name, v)}
           required={p.required}
           hint={p.hint}
+          squaredPenalty={p.kind === 'lambda' ? p.squaredPenalty !== false : true}
         />
       ))}
       {others.length > 0 && (
