@@ -163,7 +163,7 @@ describe('publication details', () => {
   it('the zoom control is drawn in our palette', () => {
     const long = quarters(1960, 2024);
     const svg = chartSvg(trendChart({ periods: long, input: long.map(() => 1), trend: long.map(() => 1) }), 1000, 600);
-    expect((zoom(long.length)[1] as { fillerColor: string }).fillerColor).toBe('rgba(14,110,104,0.12)');
+    expect((zoom(long.length)[1] as { fillerColor: string }).fillerColor).toBe('rgba(14,110,104,0.08)');
     expect(svg).toMatch(/fill="rgba?\(14,110,104/);
   });
 

@@ -90,11 +90,11 @@ export const zoom = (n: number) =>
           bottom: 4,
           borderColor: COLORS.hairline,
           backgroundColor: '#F3F0E8',
-          fillerColor: 'rgba(14,110,104,0.12)',
+          fillerColor: 'rgba(14,110,104,0.08)',
           dataBackground: { lineStyle: { color: COLORS.inkSoft, width: 0.8 }, areaStyle: { color: 'rgba(75,82,99,0.10)' } },
-          selectedDataBackground: { lineStyle: { color: COLORS.trend, width: 0.8 }, areaStyle: { color: 'rgba(14,110,104,0.18)' } },
-          handleStyle: { color: COLORS.paper, borderColor: COLORS.trend },
-          moveHandleStyle: { color: COLORS.trend, opacity: 0.45 },
+          selectedDataBackground: { lineStyle: { color: COLORS.trend, width: 0.8 }, areaStyle: { color: 'rgba(14,110,104,0.10)' } },
+          handleStyle: { color: COLORS.paper, borderColor: COLORS.trend, borderWidth: 1 },
+          moveHandleStyle: { color: COLORS.hairline, opacity: 1 },
           emphasis: { handleStyle: { borderColor: COLORS.ink }, moveHandleStyle: { color: COLORS.ink, opacity: 0.6 } },
           textStyle: { color: COLORS.inkSoft, fontFamily: FONT, fontSize: 11 },
         },
@@ -110,6 +110,8 @@ export interface PeriodBand {
   labelColor?: string;
   /** Where the label goes inside the band. */
   labelPosition?: string;
+  /** Lift the label just above the plot area, clear of the data and of the latest-observation label. */
+  labelAbove?: boolean;
 }
 
 /** The last non-missing index of `values`, or −1. */
@@ -123,7 +125,7 @@ export function lastIndex(values: readonly Num[]): number {
 export function endOfSampleBand(values: readonly Num[], k: number | undefined): PeriodBand | undefined {
   const last = lastIndex(values);
   if (!k || k <= 0 || last < 0) return undefined;
-  return { from: Math.max(0, last - k + 1), to: last, color: COLORS.endBand, label: 'end of sample: will be revised', labelColor: COLORS.alert, labelPosition: 'insideTopRight' };
+  return { from: Math.max(0, last - k + 1), to: last, color: COLORS.endBand, label: 'end of sample: will be revised', labelColor: COLORS.alert, labelPosition: 'insideTopRight', labelAbove: true };
 }
 
 /**
@@ -149,7 +151,7 @@ export function bandLayer(n: number, bands: (PeriodBand | undefined)[], bars: bo
         {
           xAxis: b.from - edge,
           itemStyle: { color: b.color },
-          label: b.label ? { show: true, position: b.labelPosition ?? 'insideTop', color: b.labelColor ?? COLORS.inkSoft, fontFamily: FONT, fontSize: 11, formatter: b.label } : { show: false },
+          label: b.label ? { show: true, position: b.labelPosition ?? 'insideTop', offset: b.labelAbove ? [0, -17] : [0, 0], color: b.labelColor ?? COLORS.inkSoft, fontFamily: FONT, fontSize: 11, formatter: b.label } : { show: false },
         },
         { xAxis: b.to + edge },
       ]),

@@ -226,7 +226,7 @@ export function compareChart(opts: { lines: NamedLine[]; unit?: string; zeroLine
     series: [
       ...series.map((s, i) =>
         lineSeries(s.name, s.values, COMPARE_COLORS[i % COMPARE_COLORS.length], i === 0 ? 2 : 1.5, {
-          markLine: i === 0 && opts.zeroLine ? { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1 }, label: { show: false }, data: [{ yAxis: 0 }] } : undefined,
+          markLine: i === 0 && opts.zeroLine ? { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1, type: 'solid' }, label: { show: false }, data: [{ yAxis: 0 }] } : undefined,
           markPoint: i === 0 ? latestMark(periods, s.values, COMPARE_COLORS[0]) : undefined,
         }),
       ),
@@ -247,7 +247,7 @@ export function fanChart(opts: { lines: NamedLine[]; final: NamedLine; realTime:
     dataZoom: zoom(periods.length),
     series: [
       ...series.slice(0, n).map((s, i) => lineSeries(s.name, s.values, vintageColor(i, n), 1)),
-      lineSeries(opts.final.name, series[n].values, COLORS.ink, 2, { markLine: { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1 }, label: { show: false }, data: [{ yAxis: 0 }] } }),
+      lineSeries(opts.final.name, series[n].values, COLORS.ink, 2, { markLine: { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1, type: 'solid' }, label: { show: false }, data: [{ yAxis: 0 }] } }),
       { name: 'real-time end points', type: 'scatter', symbolSize: 8, data: periods.map((p) => (rt.has(p) ? rt.get(p)! : null)), itemStyle: { color: COLORS.alert } },
     ],
   };

@@ -1,7 +1,7 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useEffect, useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Controller, useForm, useWatch } from 'react-hook-form';
-import { Link, useNavigate, useParams, useSearchParams } from 'react-router-dom';
+import { Link, useBlocker, useNavigate, useParams, useSearchParams } from 'react-router-dom';
 import { TRANSFORM_LABELS, TRANSFORMS } from '@schemas/decompose';
 import { createStudySchema, type CreateStudyBody, type StudySpec } from '@schemas/studies';
 import { EmptyState, ErrorNote, Field, PageHeader, Spinner, Tabs } from '@/components/ui';
@@ -62,7 +62,27 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
   const preview = usePreview(debounced);
   const changed = !!study && JSON.stringify({ ...spec, title: values.title, notes: values.notes ?? '' }) !== JSON.stringify({ seriesId: study.seriesId, vintage: study.vintage, transform: study.transform, method: study.method, params: study.params, title: study.title, notes: study.notes ?? '' });
 
-  const submit = form.handleSubmit((v) => save.mutate({ ...v, params: preview.data && preview.data.method === v.method ? (preview.data.params as Record<string, unknown>) : v.params }, { onSuccess: (s) => navigate(`/studies/${s.id}`, { replace: true }) }));
+  // Leaving with unsaved changes asks first (links inside the app, and closing or reloading the tab).
+  const unsaved = canEdit && (study ? changed : !!values.seriesId);
+  const leaving = useRef(false);
+  const go = (to: string, replace = false) => {
+    leaving.current = true;
+    navigate(to, { replace });
+  };
+  const blocker = useBlocker(({ currentLocation, nextLocation }) => unsaved && !leaving.current && currentLocation.pathname !== nextLocation.pathname);
+  useEffect(() => {
+    if (blocker.state !== 'blocked') return;
+    if (window.confirm('This study has changes that are not saved. Leave and lose them?')) blocker.proceed();
+    else blocker.reset();
+  }, [blocker]);
+  useEffect(() => {
+    if (!unsaved) return;
+    const warn = (e: BeforeUnloadEvent) => e.preventDefault();
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  }, [unsaved]);
+
+  const submit = form.handleSubmit((v) => save.mutate({ ...v, params: preview.data && preview.data.method === v.method ? (preview.data.params as Record<string, unknown>) : v.params }, { onSuccess: (s) => go(`/studies/${s.id}`, true) }));
   const paramError = preview.error && !preview.isFetching ? (preview.error as Error).message : null;
 
   return (
@@ -88,12 +108,12 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
               </Link>
             )}
             {study && allows(ACCESS.studiesWrite, me.data?.roles) && (
-              <button className="btn-quiet" onClick={() => action.mutate({ id: study.id, action: 'duplicate' }, { onSuccess: (s) => { if (s) navigate(`/studies/${s.id}`); } })}>
+              <button className="btn-quiet" onClick={() => action.mutate({ id: study.id, action: 'duplicate' }, { onSuccess: (s) => { if (s) go(`/studies/${s.id}`); } })}>
                 Duplicate
               </button>
             )}
             {study && canEdit && (
-              <button className="btn-danger" onClick={() => confirm('Delete this study? Exhibits already submitted keep their own frozen copy.') && action.mutate({ id: study.id, action: 'delete' }, { onSuccess: () => navigate('/studies') })}>
+              <button className="btn-danger" onClick={() => confirm('Delete this study? Exhibits already submitted keep their own frozen copy.') && action.mutate({ id: study.id, action: 'delete' }, { onSuccess: () => go('/studies') })}>
                 Delete
               </button>
             )}
@@ -101,6 +121,7 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
         }
       >
         {study ? <>Owned by {study.owner.name}{!isOwner && ' — duplicate it to change it'}</> : 'Choose a series and a method; the charts follow your changes.'}
+        {unsaved && study && <span className="ml-2 tag border-above text-above" data-testid="unsaved">unsaved changes</span>}
       </PageHeader>
       <ErrorNote error={action.error} />
       <div className="grid gap-6 lg:grid-cols-[22rem_minmax(0,1fr)]">
