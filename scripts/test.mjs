@@ -10,6 +10,7 @@ import {
   ensureClusterPackages,
   ensureMariadbInstalled,
   ensureNodeModules,
+  ensurePrintTools,
   log,
   provideDatabase,
   root,
@@ -19,6 +20,7 @@ ensureNodeModules();
 const bins = ensureMariadbInstalled();
 const chromium = ensureChromium();
 ensureClusterPackages();
+ensurePrintTools();
 // The tests make their own databases (tidegauge_test_…) on this server; the demo database is
 // never touched.
 const db = await provideDatabase('tidegauge_test');

@@ -29,6 +29,7 @@ import { boardRoutes } from './routes/boards.js';
 import { exhibitRoutes } from './routes/exhibits.js';
 import { chronologyRoutes } from './routes/chronology.js';
 import { printRoutes } from './routes/print.js';
+import { closePrintPool } from './workers/print-pool.js';
 import { configureObservationCache } from './services/catalogue/stored-values.js';
 import { createAnalysisPool } from './workers/pool.js';
 
@@ -140,6 +141,7 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
   app.locals.shutdown = async () => {
     await deps.background.idle();
     await deps.pool.close();
+    await closePrintPool();
   };
   app.locals.background = deps.background;
   return app as Express & { locals: AppLocals };

@@ -139,6 +139,17 @@ export function ensureChromium() {
   return chromium;
 }
 
+/**
+ * What the print tests read their files with: poppler-utils (pdfinfo, pdffonts, pdftotext) for
+ * the exhibits' PDFs, and Debian's pandas for the commented CSV headers (issue 14).
+ */
+export function ensurePrintTools() {
+  const missing = [];
+  if (!which('pdfinfo') || !which('pdffonts') || !which('pdftotext')) missing.push('poppler-utils');
+  if (spawnSync('/usr/bin/python3', ['-c', 'import pandas'], { stdio: 'ignore' }).status !== 0) missing.push('python3-pandas');
+  if (missing.length) aptInstall(missing, `The print tests read PDFs with poppler-utils and CSV files with pandas (${missing.join(', ')} missing).`);
+}
+
 // ---------------------------------------------------------------- private MariaDB
 
 function portOpen(port, host = '127.0.0.1') {

@@ -51,12 +51,20 @@ export function fontFor(family: string, bold: boolean, text = ''): FontKey {
   return bold ? 'sansBold' : 'sans';
 }
 
-/** Width of `text` in a CSS font shorthand ("bold 21px Merriweather, serif"). */
+/** Width of `text` in a CSS font shorthand ("bold 21px Merriweather, serif"); remembered, as charts measure the same labels often. */
+const widths = new Map<string, number>();
 function measure(text: string, css: string) {
-  const size = Number(/(\d+(?:\.\d+)?)px/.exec(css)?.[1] ?? 12);
-  const bold = /\b(bold|[6-9]00)\b/.test(css);
-  const { font } = fontFile(fontFor(css, bold, text));
-  return { width: (font.layout(text).advanceWidth / font.unitsPerEm) * size };
+  const key = `${css}\u0000${text}`;
+  let width = widths.get(key);
+  if (width === undefined) {
+    const size = Number(/(\d+(?:\.\d+)?)px/.exec(css)?.[1] ?? 12);
+    const bold = /\b(bold|[6-9]00)\b/.test(css);
+    const { font } = fontFile(fontFor(css, bold, text));
+    width = (font.layout(text).advanceWidth / font.unitsPerEm) * size;
+    if (widths.size > 20_000) widths.clear();
+    widths.set(key, width);
+  }
+  return { width };
 }
 echarts.setPlatformAPI({ measureText: measure });
 

@@ -11,7 +11,7 @@ import type { PublicUser } from '../../schemas/people.js';
 import { getBoard } from '../boards.js';
 import { exhibitExport } from '../exports.js';
 import { getSettings } from '../settings.js';
-import { figuresPdf } from './pdf.js';
+import { printPdf } from '../../workers/print-pool.js';
 import { getExhibit, type ExhibitDeps } from './read.js';
 
 export const PDF_TYPE = 'application/pdf';
@@ -25,7 +25,7 @@ export async function exhibitPdf(deps: ExhibitDeps, user: PublicUser, id: number
   const snap = ex.editable ? ex.live : (ex.snapshot ?? ex.live);
   if (!snap) throw conflict('no_content', 'This exhibit has no content to print yet.');
   const settings = await getSettings(deps.db);
-  const body = await figuresPdf([{ snapshot: snap }], { title: snap.text.title, institution: snap.publication?.institution || settings.institutionName });
+  const body = await printPdf([{ snapshot: snap }], { title: snap.text.title, institution: snap.publication?.institution || settings.institutionName });
   const draft = !ex.snapshot || ex.editable ? '-draft' : '';
   return { filename: `exhibit-${ex.id}-r${ex.revision}${draft}.pdf`, contentType: PDF_TYPE, body };
 }
@@ -63,7 +63,7 @@ export async function packPdf(deps: ExhibitDeps, user: PublicUser, source: PackS
   const { title, exhibits } = await packExhibits(deps, user, source);
   const settings = await getSettings(deps.db);
   const items = exhibits.map((ex, i) => ({ snapshot: ex.snapshot as Snapshot, number: `Chart ${i + 1}` }));
-  const body = await figuresPdf(items, { title, institution: settings.institutionName });
+  const body = await printPdf(items, { title, institution: settings.institutionName });
   return { filename: `${fileSafe(title)}-pack.pdf`, contentType: PDF_TYPE, body };
 }
 
