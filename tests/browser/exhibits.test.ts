@@ -95,12 +95,15 @@ describe('from a board to a published exhibit', () => {
     const pngBytes = fs.readFileSync((await png.path())!);
     expect(pngBytes.subarray(1, 4).toString()).toBe('PNG');
     expect(pngBytes.readUInt32BE(16)).toBe(3600); // 1200 px wide at 3×: print resolution
-    expect(pngBytes.readUInt32BE(20)).toBe(2025);
+    // The figure is as tall as its text needs (title, chart, notes, source, stamps, caution), at 3×.
+    expect(pngBytes.readUInt32BE(20) % 3).toBe(0);
+    expect(pngBytes.readUInt32BE(20)).toBeGreaterThan(1800);
 
     const [csv] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Data (CSV)' }).click()]);
     const text = fs.readFileSync((await csv.path())!, 'utf8');
-    const [header, firstRow] = text.split('\n');
-    expect(header).toBe('period,"Hodrick–Prescott, λ = 1 600","Hamilton regression filter, h = 8, p = 4",vintage,method');
+    const [header, firstRow] = text.split('\n').filter((l) => !l.startsWith('#'));
+    expect(text).toMatch(/^# Exhibit: Two estimates of the Estuary output gap$/m);
+    expect(header).toBe('period,"Hodrick–Prescott, λ = 1 600, % of trend","Hamilton regression filter, h = 8, p = 4, % of trend",vintage,method');
     expect(firstRow).toMatch(/^1995-Q1,/);
     expect(firstRow).toContain('data as of 2025-08-14, vintage 4');
   });
