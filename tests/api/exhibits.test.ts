@@ -200,7 +200,7 @@ describe('who sees what', () => {
     const pub = (await request(t.app).get(`/api/v1/public/exhibits/${slug}`).expect(200)).body;
     expect(pub.snapshot.vintageStamp).toMatch(/vintage/);
     const csv = await request(t.app).get(`/api/v1/public/exhibits/${slug}/data?format=csv`).expect(200);
-    expect(csv.text.split('\n')[0]).toMatch(/^period,input,trend,cycle/);
+    expect(csv.text.split('\n').find((l) => !l.startsWith('#'))).toMatch(/^period,"input, [^"]+","trend, [^"]+","cycle, % of trend \(100 × log\)"/);
     const withdrawn = await inState('withdrawn');
     const wslug = (await t.db('exhibits').where('id', withdrawn).first()).public_slug;
     await request(t.app).get(`/api/v1/public/exhibits/${wslug}`).expect(404);
