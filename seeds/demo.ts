@@ -37,6 +37,8 @@ export async function seedDemo(db: Db, { onlyIfEmpty, work = true }: { onlyIfEmp
     const { seedDemoWork } = await import('./demo-work.js');
     const { loadConfig } = await import('../server/config.js');
     await seedDemoWork(db, ids, loadConfig(undefined, { MAIL_MODE: 'off' }));
+    const { seedDemoChronology } = await import('./demo-chronology.js');
+    await seedDemoChronology(db, ids);
   }
   return true;
 }

@@ -11,6 +11,12 @@ export function diffSnapshots(a: Snapshot | null, b: Snapshot, numbers: [number 
     const before = a ? a.text[field] : null;
     if (!a || before !== b.text[field]) text.push({ field, before, after: b.text[field] });
   }
+  // What the printed figure adds: its number and the chronology it shades.
+  const printed: [string, string | null, string | null][] = [
+    ['number', a?.publication?.number ?? null, b.publication?.number ?? null],
+    ['chronology', a?.chronology?.name ?? null, b.chronology?.name ?? null],
+  ];
+  for (const [field, before, after] of printed) if (before !== after) text.push({ field, before, after });
   const studies: ExhibitDiff['studies'] = [];
   for (const s of b.studies) {
     const old = a?.studies.find((x) => x.id === s.id);
