@@ -7,6 +7,7 @@ import type { Knex } from 'knex';
 import { turningPoints } from '../analysis/index.js';
 import type { Db } from '../db.js';
 import { badRequest, conflict, notFound } from '../lib/errors.js';
+import { transaction } from '../lib/retry.js';
 import { checkTurns, contractions, type Chronology, type ChronologyBody, type ChronologyStamp, type Turn } from '../schemas/chronology.js';
 import type { PublicUser } from '../schemas/people.js';
 import { audit } from './audit.js';
@@ -59,7 +60,7 @@ async function uniqueName(db: Db | Knex.Transaction, name: string, except?: numb
 
 export async function createChronology(db: Db, user: PublicUser, body: ChronologyBody, ip?: string) {
   checked(body.turns);
-  const id = await db.transaction(async (trx) => {
+  const id = await transaction(db, async (trx) => {
     await uniqueName(trx, body.name);
     const [newId] = await trx('chronologies').insert({ name: body.name, area: body.area, notes: body.notes || null, updated_by: user.id });
     await writeTurns(trx, newId, body.turns);
@@ -71,7 +72,7 @@ export async function createChronology(db: Db, user: PublicUser, body: Chronolog
 
 export async function updateChronology(db: Db, user: PublicUser, id: number, body: Partial<ChronologyBody>, ip?: string) {
   checked(body.turns);
-  await db.transaction(async (trx) => {
+  await transaction(db, async (trx) => {
     const row = await trx('chronologies').where('id', id).forUpdate().first();
     if (!row) throw notFound('The reference chronology');
     if (body.name) await uniqueName(trx, body.name, id);
@@ -87,7 +88,7 @@ export async function updateChronology(db: Db, user: PublicUser, id: number, bod
 }
 
 export async function deleteChronology(db: Db, user: PublicUser, id: number, ip?: string) {
-  await db.transaction(async (trx) => {
+  await transaction(db, async (trx) => {
     await getChronology(trx, id);
     // Exhibits keep what they froze; drafts simply lose the shading.
     await trx('chronologies').where('id', id).delete();
