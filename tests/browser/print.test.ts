@@ -157,6 +157,10 @@ describe('phones, guards and states', () => {
 
     await page.goto(`${t.url}/studies/1`);
     await page.getByTestId('cycle-chart').locator('canvas').first().waitFor();
+    // Method texts (defect 5): the last value names its period; λ stays λ in an upper-case label.
+    expect(await page.getByTestId('cycle-stats').innerText()).toMatch(/Last value \(\d{4}-Q[1-4]\)/);
+    expect(await page.getByText(/Smoothing parameter/).first().innerText()).toMatch(/SMOOTHING PARAMETER λ/);
+    expect(await page.getByTestId('end-warning').innerText()).toBe('last 8 quarters (2 years): estimates will be revised');
     // A new λ: the old chart stays, greyed and said to be stale, until the new result arrives.
     await page.getByLabel('λ', { exact: true }).fill('400');
     await expect.poll(() => page.getByTestId('decomposition-charts').getAttribute('data-stale')).toBe('true');
@@ -179,5 +183,12 @@ describe('phones, guards and states', () => {
     await nav('Boards').click();
     await page.waitForURL(/\/boards$/);
     expect(prompts).toBe(2);
+
+    // ℓ1 trend filtering has no Hodrick–Prescott cut-off or presets (defect 5).
+    await page.goto(`${t.url}/studies/new?seriesId=1`);
+    await page.locator('#method').selectOption('l1-trend');
+    await page.getByText(/Try 10 for quarterly data/).waitFor();
+    expect(await page.getByTestId('cutoff').count()).toBe(0);
+    expect(await page.getByRole('button', { name: /Hodrick–Prescott convention/ }).count()).toBe(0);
   });
 });
