@@ -16,7 +16,8 @@ export function baseOption() {
     animationDuration: 250,
     grid: { left: 56, right: 24, top: 44, bottom: 48, containLabel: false },
     tooltip: { trigger: 'axis', backgroundColor: '#FFFEFB', borderColor: COLORS.hairline, textStyle: { color: COLORS.ink, fontFamily: FONT }, valueFormatter: (v: unknown) => (typeof v === 'number' ? fmt(v) : String(v ?? '—')) },
-    legend: { top: 0, right: 8, icon: 'roundRect', itemWidth: 14, itemHeight: 4, textStyle: { color: COLORS.inkSoft } },
+    // One row that pages on narrow charts, so it never runs into the plot or the band's label.
+    legend: { type: 'scroll', top: 0, left: 56, right: 8, align: 'left', icon: 'roundRect', itemWidth: 14, itemHeight: 4, textStyle: { color: COLORS.inkSoft }, pageIconColor: COLORS.trend, pageIconInactiveColor: COLORS.hairline, pageTextStyle: { color: COLORS.inkSoft } },
   };
 }
 
@@ -181,7 +182,9 @@ const endRoom = (text: string) => Math.max(24, Math.ceil(text.length * 6.5) + 16
 export function vintagesChart(opts: { lines: NamedLine[]; unit?: string } & Shading) {
   const { periods, series } = alignLines(opts.lines);
   const n = series.length;
-  const newest = series[n - 1]?.name ?? '';
+  // The end label names the newest vintage briefly ("vintage 4"); its release date is in the legend.
+  const short = (name: string) => name.replace(/ \(.*\)$/, '');
+  const newest = short(series[n - 1]?.name ?? '');
   const t = timeChart(periods, false, bandsOf(periods, series[n - 1]?.values ?? [], opts), valueAxis(opts.unit));
   return {
     ...baseOption(),
@@ -190,7 +193,7 @@ export function vintagesChart(opts: { lines: NamedLine[]; unit?: string } & Shad
     yAxis: t.yAxis,
     dataZoom: zoom(periods.length),
     series: [
-      ...series.map((s, i) => lineSeries(s.name, s.values, vintageColor(i, n), i === n - 1 ? 2 : 1.25, { endLabel: i === n - 1 ? { show: true, formatter: s.name, color: vintageColor(i, n), fontFamily: FONT, fontWeight: 600 } : undefined })),
+      ...series.map((s, i) => lineSeries(s.name, s.values, vintageColor(i, n), i === n - 1 ? 2 : 1.25, { endLabel: i === n - 1 ? { show: true, formatter: short(s.name), color: vintageColor(i, n), fontFamily: FONT, fontWeight: 600 } : undefined })),
       ...t.bandSeries,
     ],
   };

@@ -218,6 +218,8 @@ export function ExhibitPage() {
   const ex = useExhibit(id);
   const me = useMe();
   const { remove } = useExhibitMutations(id);
+  // The text form's chronology choice needs the list before it shows the saved choice.
+  const chronologies = useChronologies();
   const navigate = useNavigate();
   const announce = useAnnounce();
   const stateRef = useRef<HTMLSpanElement>(null);
@@ -283,7 +285,7 @@ export function ExhibitPage() {
               announce(moveAnnouncement(next));
             }}
           />
-          {e.editable && <TextForm exhibit={e} />}
+          {e.editable && (chronologies.isPending ? <Spinner /> : <TextForm exhibit={e} />)}
           <div className="card p-4">
             <h2 className="mb-2 font-heading text-base font-bold">History</h2>
             <History exhibit={e} />
