@@ -6,6 +6,7 @@
  * its own; pure, so that the server can use it for files it renders.
  */
 
+import { BAND_SERIES_ID } from './charts/axes.js';
 type Num = number | null;
 type Any = Record<string, any>;
 
@@ -36,7 +37,9 @@ export function chartData(option: unknown): ChartData {
   const o = (option ?? {}) as Any;
   const xAxis = first(o.xAxis);
   const yAxis = first(o.yAxis);
-  const series = (Array.isArray(o.series) ? o.series : [o.series]).filter((s: Any) => s && ['line', 'bar', 'scatter'].includes(s.type)) as Any[];
+  const all = (Array.isArray(o.series) ? o.series : [o.series]).filter((s: Any) => s && ['line', 'bar', 'scatter'].includes(s.type)) as Any[];
+  // The shaded period bands are a series of their own (charts/axes.ts): read for its marks, not as a line.
+  const series = all.filter((s) => s.id !== BAND_SERIES_ID);
   const categorical = xAxis.type === 'category' || Array.isArray(xAxis.data);
   let rows: string[];
   let lines: ChartData['lines'];
@@ -54,16 +57,17 @@ export function chartData(option: unknown): ChartData {
   }
   const turningPoints: ChartData['turningPoints'] = [];
   const marks: string[] = [];
-  const at = (v: unknown) => (typeof v === 'number' && categorical ? rows[v] : v === undefined ? undefined : String(v));
-  for (const s of series) {
+  // Bands over bars run from half a period before the first to half after the last (a hidden axis).
+  const at = (v: unknown, edge: 'from' | 'to') => (typeof v === 'number' && categorical ? rows[edge === 'from' ? Math.ceil(v) : Math.floor(v)] : v === undefined ? undefined : String(v));
+  for (const s of all) {
     for (const m of (s.markPoint?.data ?? []) as Any[]) {
       if ((m.name === 'peak' || m.name === 'trough') && Array.isArray(m.coord)) turningPoints.push({ period: String(m.coord[0]), type: m.name });
     }
     for (const area of (s.markArea?.data ?? []) as Any[][]) {
       const [a, b] = area ?? [];
       const text = labelOf(a) ?? labelOf(s.markArea);
-      const from = at(a?.xAxis);
-      const to = at(b?.xAxis);
+      const from = at(a?.xAxis, 'from');
+      const to = at(b?.xAxis, 'to');
       if (text && from !== undefined && to !== undefined) marks.push(`${from} to ${to} shaded: ${text}`);
     }
     for (const line of (s.markLine?.data ?? []) as Any[]) {

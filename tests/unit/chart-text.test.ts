@@ -5,7 +5,8 @@
 import { describe, expect, it } from 'vitest';
 import { chartData, chartSummary, svgWithText } from '../../server/schemas/chart-text.js';
 import { fmt } from '../../src/components/charts/echarts.js';
-import { compareChart, cycleChart, gainChart, trendChart, withExhibitFrame } from '../../src/components/charts/options.js';
+import { composeFigure } from '../../server/schemas/charts/figure.js';
+import { compareChart, cycleChart, gainChart, trendChart } from '../../src/components/charts/options.js';
 
 const periods = ['2023-Q1', '2023-Q2', '2023-Q3', '2023-Q4', '2024-Q1', '2024-Q2', '2024-Q3', '2024-Q4'];
 const cycle = [null, -0.5, 0.25, 1.5, 0.75, -0.25, -1.25, -0.5];
@@ -60,7 +61,7 @@ describe('chart text alternatives', () => {
   });
 
   it('puts an escaped title and desc first in the SVG root', () => {
-    const option = withExhibitFrame(cycleChart({ periods, cycle }) as never, { title: 'Gap <A & B>', lines: ['Source: "us"'] });
+    const { option } = composeFigure(cycleChart({ periods, cycle }), { number: null, title: 'Gap <A & B>', subtitle: null, notes: null, source: 'Source: "us"', stamp: 'data as of 2025-01-30, vintage 1', caution: 'Caution.', institution: null, chronology: null });
     expect((option.title as { text: string }).text).toBe('Gap <A & B>');
     const svg = svgWithText('<?xml version="1.0"?><svg xmlns="http://www.w3.org/2000/svg" width="10"><rect/></svg>', 'Gap <A & B>', 'Source: "us"');
     expect(svg).toBe('<?xml version="1.0"?><svg xmlns="http://www.w3.org/2000/svg" width="10"><title>Gap &lt;A &amp; B&gt;</title><desc>Source: &quot;us&quot;</desc><rect/></svg>');

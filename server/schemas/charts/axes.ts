@@ -114,6 +114,9 @@ export interface PeriodBand {
   labelAbove?: boolean;
 }
 
+/** The id of the series that carries a chart's shaded bands (chart-text.ts reads its marks, not its values). */
+export const BAND_SERIES_ID = 'period-bands';
+
 /** The last non-missing index of `values`, or −1. */
 export function lastIndex(values: readonly Num[]): number {
   let last = values.length - 1;
@@ -139,6 +142,7 @@ export function bandLayer(n: number, bands: (PeriodBand | undefined)[], bars: bo
   if (!list.length) return { series: [] as Record<string, unknown>[], axis: null };
   const edge = bars ? 0.5 : 0;
   const series = {
+    id: BAND_SERIES_ID,
     type: 'line',
     data: [],
     silent: true,

@@ -106,15 +106,16 @@ export function composeFigure(chartOption: object, t: FigureText, width = 1200) 
   const chart = chartOption as Record<string, any>;
   const texts: Record<string, unknown>[] = [];
   let y = 22;
-  const put = (lines: string[], size: number, style: Record<string, unknown>, lead: number) => {
+  // Header lines get ids starting "figure-head": an SVG's <title> and <desc> name them once (render.ts).
+  const put = (lines: string[], size: number, style: Record<string, unknown>, lead: number, head = false) => {
     for (const l of lines) {
-      texts.push({ type: 'text', left: PAD, top: y, silent: true, style: { text: l, fontSize: size, fontFamily: FONT, fill: COLORS.inkSoft, ...style } });
+      texts.push({ type: 'text', ...(head ? { id: `figure-head-${texts.length}` } : {}), left: PAD, top: y, silent: true, style: { text: l, fontSize: size, fontFamily: FONT, fill: COLORS.inkSoft, ...style } });
       y += lead;
     }
   };
-  if (t.number) put([t.number], 13, { fontWeight: 'bold', fill: COLORS.trend }, 20);
-  put(wrapText(t.title, inner, 21, 0.58), 21, { fontFamily: HEADING_FONT, fontWeight: 'bold', fill: COLORS.ink }, 29);
-  if (t.subtitle) put(wrapText(t.subtitle, inner, 14), 14, {}, 20);
+  if (t.number) put([t.number], 13, { fontWeight: 'bold', fill: COLORS.trend }, 20, true);
+  put(wrapText(t.title, inner, 21, 0.58), 21, { fontFamily: HEADING_FONT, fontWeight: 'bold', fill: COLORS.ink }, 29, true);
+  if (t.subtitle) put(wrapText(t.subtitle, inner, 14), 14, {}, 20, true);
   const legendTop = y + 6;
   const gridTop = legendTop + 40;
   y = gridTop + CHART_HEIGHT + 30;
@@ -132,7 +133,8 @@ export function composeFigure(chartOption: object, t: FigureText, width = 1200) 
     ...chart,
     animation: false,
     backgroundColor: '#FFFFFF',
-    title: undefined,
+    // Not drawn (the header lines above are): read for the SVG's <title> and <desc>.
+    title: { show: false, text: [t.number, t.title].filter(Boolean).join(': '), subtext: t.subtitle ?? '' },
     legend: { ...(chart.legend ?? {}), top: legendTop, left: PAD, right: undefined },
     grid: { ...(chart.grid ?? {}), left: PAD + 44, right: Math.max(40, chart.grid?.right ?? 0), top: gridTop, bottom: height - gridTop - CHART_HEIGHT },
     dataZoom: [],

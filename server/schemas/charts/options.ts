@@ -117,7 +117,7 @@ export function cycleChart(opts: { periods: string[]; cycle: Num[]; unit?: strin
   const data = opts.cycle.map((v) => (v === null ? null : { value: v, itemStyle: { color: v >= 0 ? COLORS.above : COLORS.below } }));
   const marks = (opts.turningPoints ?? []).map((tp) => ({
     name: tp.type,
-    coord: [tp.index, opts.cycle[tp.index]],
+    coord: [opts.periods[tp.index], opts.cycle[tp.index]],
     symbol: 'triangle',
     symbolSize: 9,
     symbolRotate: tp.type === 'peak' ? 0 : 180,

@@ -31,8 +31,9 @@ export async function chartToSvg(option: echarts.EChartsCoreOption, width = 1000
 
 /** The file's `<title>` (the chart's title) and `<desc>` (its subtitle, the generated summary, and the source, stamp and caution lines). */
 export function svgTitleAndDesc(option: echarts.EChartsCoreOption): [string, string] {
-  const o = option as { title?: { text?: string; subtext?: string }; graphic?: { style?: { text?: string } }[] };
-  const footer = (o.graphic ?? []).map((g) => g.style?.text).filter((t): t is string => !!t);
+  const o = option as { title?: { text?: string; subtext?: string }; graphic?: { id?: string; style?: { text?: string } }[] };
+  // A figure's header lines (number, title, subtitle) are already the title and subtext.
+  const footer = (o.graphic ?? []).filter((g) => !g.id?.startsWith('figure-head')).map((g) => g.style?.text).filter((t): t is string => !!t);
   const sentence = (t: string) => (/[.!?]$/.test(t.trim()) ? t.trim() : `${t.trim()}.`);
   const desc = [o.title?.subtext, chartSummary(chartData(option), (v) => fmt(v)), ...footer].filter((t): t is string => !!t?.trim()).map(sentence).join(' ');
   return [o.title?.text || 'Chart', desc];
