@@ -174,7 +174,8 @@ export function latestMark(periods: readonly string[], values: readonly Num[], c
     symbol: 'circle',
     symbolSize: 7,
     itemStyle: { color, borderColor: '#FFFFFF', borderWidth: 1.5 },
-    label: { show: true, position: 'top', align: 'right', distance: 6, color: COLORS.ink, fontFamily: FONT, fontSize: 11, fontWeight: 600, formatter: `${periods[i]}: ${fmt(values[i] as number)}` },
+    // Left of the point, with a paper-coloured halo: clear of the band's label above the plot, readable over lines and bars.
+    label: { show: true, position: 'left', distance: 6, color: COLORS.ink, textBorderColor: COLORS.paper, textBorderWidth: 3, fontFamily: FONT, fontSize: 11, fontWeight: 600, formatter: `${periods[i]}: ${fmt(values[i] as number)}` },
     data: [{ coord: [i, values[i]], name: 'latest' }],
   };
 }
