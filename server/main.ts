@@ -6,6 +6,7 @@ import { createDb, poolInUse } from './db.js';
 import { createDrain } from './lib/drain.js';
 import { createLogger } from './lib/logger.js';
 import { startLocalMailbox, type FakeMailServer } from './mail/fake-smtp.js';
+import { startLocalSdmxSource, type FakeSdmxSource } from './sdmx/fake-source.js';
 import { createAnalysisPool } from './workers/pool.js';
 
 let config: Config;
@@ -38,6 +39,19 @@ if (config.mail.mode === 'fake') {
     process.exit(1);
   }
 }
+// The local fake SDMX source (development and the demo): a feed reads it through its URL like any source.
+let sdmxSource: FakeSdmxSource | undefined;
+if (config.fakeSdmx.enabled) {
+  try {
+    const started = await startLocalSdmxSource(config.fakeSdmx.port);
+    sdmxSource = started.source;
+    const where = `fake SDMX source (invented data) on ${sdmxSource.url}; POST ${sdmxSource.url}/release publishes a new release`;
+    if (started.moved) logger.warn({ requestedPort: config.fakeSdmx.port, port: sdmxSource.port }, `Port ${config.fakeSdmx.port} (FAKE_SDMX_PORT) is taken, so the ${where}`);
+    else logger.info(where);
+  } catch (error) {
+    logger.warn(`The fake SDMX source could not start on 127.0.0.1:${config.fakeSdmx.port} (${(error as Error).message}); set FAKE_SDMX_PORT, or FAKE_SDMX=0.`);
+  }
+}
 const pool = createAnalysisPool(config.workerThreads);
 const app = createApp({ config, db, logger, mailbox, pool });
 
@@ -60,7 +74,7 @@ async function close(signal: string) {
     // Work whose client went away still holds or waits for connections, or runs on a worker thread;
     // work done after an answer (a reset mail) is finished too.
     busy: () => poolInUse(db) > 0 || pool.active > 0 || app.locals.background.pending > 0,
-    close: () => Promise.allSettled([app.locals.shutdown(), db.destroy(), mailbox?.close()]),
+    close: () => Promise.allSettled([app.locals.shutdown(), db.destroy(), mailbox?.close(), sdmxSource?.close()]),
   });
   logger.info(`closed after ${ms} ms`);
   process.exit(unfinished ? 1 : 0);
