@@ -4,13 +4,13 @@ import { z } from 'zod';
 import type { AppDeps } from '../deps.js';
 import { ACCESS } from '../schemas/access.js';
 import { badRequest, conflict } from '../lib/errors.js';
-import { idParam, parseOr400, sendFile, type RouteSpec } from '../lib/http.js';
+import { parseOr400, sendFile, type RouteSpec } from '../lib/http.js';
 import { answerWithProgress } from '../lib/stream.js';
-import { createSeriesSchema, loadFieldsSchema, updateSeriesSchema } from '../schemas/catalogue.js';
+import { asOfQuerySchema, createSeriesSchema, loadFieldsSchema, updateSeriesSchema, type ObservationsAsOf } from '../schemas/catalogue.js';
 import { listLoads, loadFile, type LoadRequest } from '../services/catalogue/loads.js';
 import { revisionTriangle, revisions } from '../services/catalogue/revisions.js';
-import { createSeries, deleteSeries, getSeries, listSeries, updateSeries } from '../services/catalogue/series.js';
-import { listVintages, observationsOf, resolveVintage } from '../services/catalogue/vintages.js';
+import { createSeries, deleteSeries, listSeries, resolveSeriesRef, updateSeries } from '../services/catalogue/series.js';
+import { listVintages, observationsOf, resolveVintage, vintageInForce } from '../services/catalogue/vintages.js';
 import { vintageExport } from '../services/exports.js';
 
 const vintageRef = (v: string | undefined) => (v === 'latest' ? 'latest' : Number(v));
@@ -33,6 +33,8 @@ function loadInput(req: Request): Pick<LoadRequest, 'file' | 'fields' | 'dryRun'
 
 export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
   const { db, config } = deps;
+  /** The id of the series a path names by id or code (404 when none). */
+  const seriesOf = async (ref: string | undefined) => (await resolveSeriesRef(db, ref)).id;
   const immutable = () => {
     throw conflict('vintage_immutable', 'Vintages never change. To correct a release, load the corrected data: it becomes a new vintage.');
   };
@@ -63,9 +65,8 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'A series with its metadata and latest vintage',
       tags: ['catalogue'],
       handler: async ({ params }) => {
-        const id = idParam(params.id, 'The series');
-        const series = await getSeries(db, id);
-        const vintages = await listVintages(db, id);
+        const series = await resolveSeriesRef(db, params.id);
+        const vintages = await listVintages(db, series.id);
         return { ...series, vintageCount: vintages.length, latestVintage: vintages[0] ?? null };
       },
     },
@@ -76,7 +77,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Correct a series’ metadata',
       tags: ['catalogue'],
       body: updateSeriesSchema,
-      handler: ({ params, body, auth, req }) => updateSeries(db, auth!.user.id, idParam(params.id, 'The series'), body, req.ip),
+      handler: async ({ params, body, auth, req }) => updateSeries(db, auth!.user.id, await seriesOf(params.id), body, req.ip),
     },
     {
       method: 'delete',
@@ -84,7 +85,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       access: ACCESS.catalogueWrite,
       summary: 'Delete a series that has no vintage yet',
       tags: ['catalogue'],
-      handler: ({ params, auth, req }) => deleteSeries(db, auth!.user.id, idParam(params.id, 'The series'), req.ip),
+      handler: async ({ params, auth, req }) => deleteSeries(db, auth!.user.id, await seriesOf(params.id), req.ip),
     },
     {
       method: 'post',
@@ -95,7 +96,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       before: [upload(config.maxUploadBytes)],
       raw: true,
       handler: async ({ params, req, res }) => {
-        const seriesId = idParam(params.id, 'The series');
+        const seriesId = await seriesOf(params.id);
         const input = loadInput(req);
         const answer = await loadFile(db, { ...input, seriesId });
         res.status(input.dryRun ? 200 : 201).json(answer);
@@ -107,7 +108,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'Every vintage of a series, newest first, with who loaded it and when',
       tags: ['catalogue'],
-      handler: async ({ params }) => ({ items: await listVintages(db, idParam(params.id, 'The series')) }),
+      handler: async ({ params }) => ({ items: await listVintages(db, await seriesOf(params.id)) }),
     },
     {
       method: 'get',
@@ -116,7 +117,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'One vintage (its number, or "latest")',
       tags: ['catalogue'],
       handler: async ({ params }) => {
-        const { id: _id, ...v } = await resolveVintage(db, idParam(params.id, 'The series'), vintageRef(params.number));
+        const { id: _id, ...v } = await resolveVintage(db, await seriesOf(params.id), vintageRef(params.number));
         return v;
       },
     },
@@ -130,9 +131,22 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'The observations of a vintage (its number, or "latest")',
       tags: ['catalogue'],
       handler: async ({ params }) => {
-        const v = await resolveVintage(db, idParam(params.id, 'The series'), vintageRef(params.number));
+        const v = await resolveVintage(db, await seriesOf(params.id), vintageRef(params.number));
         const obs = await observationsOf(db, v.id);
         return { vintage: v.number, asOf: v.asOf, ...obs };
+      },
+    },
+    {
+      method: 'get',
+      path: '/series/:series/observations',
+      access: 'signedIn',
+      summary: 'The observations of the vintage in force on a date (?asOf=YYYY-MM-DD: the latest released on or before it); 404 before the first release',
+      tags: ['catalogue'],
+      query: asOfQuerySchema,
+      handler: async ({ params, query }): Promise<ObservationsAsOf> => {
+        const v = await vintageInForce(db, await seriesOf(params.series), query.asOf);
+        const obs = await observationsOf(db, v.id);
+        return { vintage: { number: v.number, asOf: v.asOf }, periods: obs.periods, values: obs.values };
       },
     },
     {
@@ -143,7 +157,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['catalogue'],
       query: z.object({ format: z.enum(['csv', 'xlsx', 'sdmx-csv']).default('csv') }),
       raw: true,
-      handler: async ({ params, query, res }) => sendFile(res, await vintageExport(db, idParam(params.id, 'The series'), vintageRef(params.number), query.format)),
+      handler: async ({ params, query, res }) => sendFile(res, await vintageExport(db, await seriesOf(params.id), vintageRef(params.number), query.format)),
     },
     {
       method: 'get',
@@ -153,7 +167,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['catalogue'],
       query: z.object({ from: z.string().max(10).optional(), to: z.string().max(10).optional() }),
       handler: async ({ params, query }) => {
-        const id = idParam(params.id, 'The series');
+        const id = await seriesOf(params.id);
         let from = query.from ? vintageRef(query.from) : undefined;
         const to = query.to ? vintageRef(query.to) : 'latest';
         if (from === undefined) {
@@ -169,7 +183,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'The revision triangle: periods down, vintages across',
       tags: ['catalogue'],
-      handler: ({ params }) => revisionTriangle(db, idParam(params.id, 'The series')),
+      handler: async ({ params }) => revisionTriangle(db, await seriesOf(params.id)),
     },
     {
       method: 'post',

@@ -37,17 +37,29 @@ export const updateSeriesSchema = createSeriesSchema
   .partial()
   .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
 
+/** A calendar date written YYYY-MM-DD (an as-of date, a release date). */
+export const isoDateSchema = z
+  .string({ error: 'Write the as-of date as YYYY-MM-DD.' })
+  .regex(/^\d{4}-\d{2}-\d{2}$/, 'Write the as-of date as YYYY-MM-DD.')
+  .refine((d) => !Number.isNaN(Date.parse(d + 'T00:00:00Z')) && new Date(d + 'T00:00:00Z').toISOString().slice(0, 10) === d, 'The as-of date is not a real date.');
+
 export const loadFieldsSchema = z.object({
   note: z.string().max(2000, 'The note has at most 2000 characters.').optional(),
-  asOf: z
-    .string()
-    .regex(/^\d{4}-\d{2}-\d{2}$/, 'Write the as-of date as YYYY-MM-DD.')
-    .refine((d) => !Number.isNaN(Date.parse(d + 'T00:00:00Z')) && new Date(d + 'T00:00:00Z').toISOString().slice(0, 10) === d, 'The as-of date is not a real date.')
-    .optional(),
+  asOf: isoDateSchema.optional(),
   format: z.enum(['csv', 'sdmx-csv', 'xlsx']).optional(),
   expectChecksum: z.string().regex(/^[0-9a-f]{64}$/).optional(),
 });
 export type LoadFields = z.infer<typeof loadFieldsSchema>;
+
+/** GET /series/:series/observations?asOf=YYYY-MM-DD: the vintage in force on that date. */
+export const asOfQuerySchema = z.object({ asOf: isoDateSchema });
+
+/** The answer of GET /series/:series/observations?asOf=…: the vintage in force and its rows. */
+export interface ObservationsAsOf {
+  vintage: { number: number; asOf: string };
+  periods: string[];
+  values: (number | null)[];
+}
 
 /** Revisions between two vintages, as the API answers them. */
 export type RevisionStatus = 'revised' | 'new' | 'removed' | 'unchanged';

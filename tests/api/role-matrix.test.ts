@@ -69,6 +69,7 @@ export const MATRIX: Row[] = [
   { route: 'PATCH /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', body: {}, allow: SIGNED_IN },
   { route: 'DELETE /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:id/vintages/:number/observations', path: '/api/v1/series/999999/vintages/latest/observations', allow: SIGNED_IN },
+  { route: 'GET /api/v1/series/:series/observations', path: '/api/v1/series/999999/observations?asOf=2020-01-01', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:id/vintages/:number/export', path: '/api/v1/series/999999/vintages/1/export', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:id/revisions', path: '/api/v1/series/999999/revisions', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:id/revisions/triangle', path: '/api/v1/series/999999/revisions/triangle', allow: SIGNED_IN },
@@ -289,7 +290,7 @@ describe('the reading rule (issue 17): unpublished work reaches only those who m
           : registered.startsWith('/api/v1/public/exhibits/')
             ? { slug: [ids.slug] }
             : registered.startsWith('/api/v1/series/')
-              ? { id: [String(ids.series)], number: ['1'] }
+              ? { id: [String(ids.series)], series: [String(ids.series)], number: ['1'] }
               : {};
     let paths = [registered];
     for (const [name] of registered.matchAll(/:(\w+)/g)) {

@@ -31,6 +31,23 @@ export async function getSeries(db: Db | Knex.Transaction, id: number): Promise<
   return toSeries(row);
 }
 
+/**
+ * The series a route names by its numeric id or by its code (`EST_GDP_REAL`): every
+ * `/api/v1/series/:id…` route takes both. Codes start with a capital letter, so a string of
+ * digits is always an id. 404 (error shape) when neither names a series.
+ */
+export async function resolveSeriesRef(db: Db | Knex.Transaction, idOrCode: string | number | undefined): Promise<Series> {
+  const ref = String(idOrCode ?? '').trim();
+  if (/^\d{1,10}$/.test(ref)) {
+    const id = Number(ref);
+    if (id > 0 && id <= 2 ** 31) return getSeries(db, id);
+  } else if (/^[A-Za-z][A-Za-z0-9_.]{1,63}$/.test(ref)) {
+    const row = await db('series').where('code', ref.toUpperCase()).first();
+    if (row) return toSeries(row);
+  }
+  throw notFound(`The series ${ref.slice(0, 64)}`);
+}
+
 export async function createSeries(db: Db, actorId: number, body: CreateSeriesBody, ip?: string) {
   try {
     const id = await transaction(db, async (trx) => {

@@ -33,6 +33,25 @@ export async function resolveVintage(db: Db | Knex.Transaction, seriesId: number
   return { ...toVintage(row), id: row.id };
 }
 
+/**
+ * The vintage in force on `date` (YYYY-MM-DD): the latest released on or before it. Vintages are
+ * numbered in release order, so their release dates never decrease with the number; ties on a
+ * date go to the higher number. 404 (error shape) when none was released by then.
+ */
+export async function vintageInForce(db: Db | Knex.Transaction, seriesId: number, date: string): Promise<StoredVintage> {
+  const row = await db('vintages as v')
+    .leftJoin('users as u', 'u.id', 'v.created_by')
+    .where('v.series_id', seriesId)
+    .andWhere('v.as_of', '<=', date)
+    .orderBy([{ column: 'v.as_of', order: 'desc' }, { column: 'v.number', order: 'desc' }])
+    .first('v.*', 'u.name as creator_name');
+  if (!row) {
+    await getSeries(db, seriesId);
+    throw notFound(`A vintage of this series released on or before ${date} (none was released by then)`);
+  }
+  return { ...toVintage(row), id: row.id };
+}
+
 /** The words of the 404 for a missing vintage (shared with the stored-values read path). */
 export const vintageWhat = (which: number | 'latest' | string) => (which === 'latest' ? 'A vintage of this series (none is loaded yet)' : `Vintage ${which} of this series`);
 
