@@ -29,6 +29,7 @@ import { boardRoutes } from './routes/boards.js';
 import { exhibitRoutes } from './routes/exhibits.js';
 import { chronologyRoutes } from './routes/chronology.js';
 import { printRoutes } from './routes/print.js';
+import { alertRoutes } from './routes/alerts.js';
 import { closePrintPool } from './workers/print-pool.js';
 import { configureObservationCache } from './services/catalogue/stored-values.js';
 import { createAnalysisPool } from './workers/pool.js';
@@ -115,7 +116,7 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
   api.use(authenticate(db, deps.lucia));
   api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps), alertRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));

@@ -98,7 +98,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       handler: async ({ params, req, res }) => {
         const seriesId = await seriesOf(params.id);
         const input = loadInput(req);
-        const answer = await loadFile(db, { ...input, seriesId });
+        const answer = await loadFile(db, { ...input, seriesId, alerts: deps });
         res.status(input.dryRun ? 200 : 201).json(answer);
       },
     },
@@ -195,7 +195,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       raw: true,
       handler: async ({ req, res }) => {
         const input = loadInput(req);
-        await answerWithProgress(req, res, input.dryRun ? 200 : 201, (onProgress) => loadFile(db, { ...input, onProgress }));
+        await answerWithProgress(req, res, input.dryRun ? 200 : 201, (onProgress) => loadFile(db, { ...input, onProgress, alerts: deps }));
       },
     },
     {

@@ -71,7 +71,7 @@ export const PAGES = [
   { path: '/review', access: ACCESS.review, api: ['GET /api/v1/review'], nav: 'Review desk' },
   { path: '/people', access: ACCESS.people, api: ['GET /api/v1/users', 'GET /api/v1/invitations', 'GET /api/v1/audit', 'GET /api/v1/settings'], nav: 'People' },
   { path: '/people/mailbox', access: ACCESS.people, api: ['GET /api/v1/dev/mailbox'] },
-  { path: '/profile', access: 'signedIn', api: ['GET /api/v1/tokens', 'POST /api/v1/tokens', 'POST /api/v1/auth/password'] },
+  { path: '/profile', access: 'signedIn', api: ['GET /api/v1/tokens', 'POST /api/v1/tokens', 'POST /api/v1/auth/password', 'GET /api/v1/profile/alerts', 'PUT /api/v1/profile/alerts'] },
 ] as const satisfies readonly Page[];
 
 export type PagePath = (typeof PAGES)[number]['path'];

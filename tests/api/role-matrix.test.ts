@@ -56,6 +56,9 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/tokens', allow: SIGNED_IN },
   { route: 'DELETE /api/v1/tokens/:id', path: '/api/v1/tokens/999999', allow: SIGNED_IN },
   { route: 'GET /api/v1/dev/mailbox', allow: ['admin'] },
+  // Release alerts (issue 15): one's own setting.
+  { route: 'GET /api/v1/profile/alerts', allow: SIGNED_IN },
+  { route: 'PUT /api/v1/profile/alerts', body: {}, allow: SIGNED_IN },
   // Catalogue: everyone signed in reads; stewards and admins write. Vintages never change (409).
   { route: 'GET /api/v1/series', allow: SIGNED_IN },
   { route: 'POST /api/v1/series', body: {}, allow: STEWARDS },

@@ -9,6 +9,7 @@ import type { Progress } from '../../lib/stream.js';
 import type { LoadAnswer, LoadFields } from '../../schemas/catalogue.js';
 import { previewJson, previewLoad, type UploadedFile } from './loads/preview.js';
 import { storeLoad } from './loads/store.js';
+import type { AlertDeps } from '../alerts/landed.js';
 
 export { listLoads } from './loads/store.js';
 export type { UploadedFile };
@@ -26,16 +27,18 @@ export interface LoadRequest {
   seriesId?: number;
   actor: { id: number; ip?: string };
   onProgress?: Progress;
+  /** Mail and background work for the release alerts of what is stored (services/alerts). */
+  alerts?: AlertDeps;
 }
 
 export async function loadFile(db: Db, request: LoadRequest): Promise<LoadAnswer> {
-  const { file, fields, dryRun, seriesId, actor, onProgress } = request;
+  const { file, fields, dryRun, seriesId, actor, onProgress, alerts } = request;
   const checked = await previewLoad(db, file, seriesId, onProgress);
   if (dryRun) {
     return { preview: previewJson(checked, { withObservations: seriesId !== undefined && checked.observations <= PREVIEW_OBSERVATIONS_MAX }) };
   }
   const storeFields = seriesId !== undefined ? fields : { note: fields.note, asOf: fields.asOf };
-  const stored = await storeLoad(db, actor.id, checked, storeFields, actor.ip, onProgress);
+  const stored = await storeLoad(db, actor.id, checked, storeFields, actor.ip, onProgress, alerts);
   const preview = previewJson(checked, { withObservations: false });
   if (seriesId !== undefined) {
     const v = stored.vintages[0];

@@ -6,6 +6,7 @@ import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/
 import { useMe } from '@/features/auth/api';
 import { useTokenMutations, useTokens } from './api';
 import { PasswordForm } from './PasswordForm';
+import { AlertSettingsForm } from './AlertSettingsForm';
 
 export function ProfilePage() {
   const me = useMe();
@@ -19,6 +20,7 @@ export function ProfilePage() {
         {me.data.email} · {me.data.roles.map((r) => ROLE_LABELS[r]).join(', ')}
       </PageHeader>
       <PasswordForm />
+      <AlertSettingsForm />
       <section className="mt-10 space-y-4">
         <h2 className="font-heading text-lg font-bold">API tokens</h2>
         <p className="max-w-2xl text-sm text-ink-soft">

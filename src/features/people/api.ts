@@ -1,6 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
 import type { ApiToken, AuditRow, Invitation, InviteBody, MailboxMessage, Person, Role } from '@schemas/people';
+import type { AlertSettings } from '@schemas/alerts';
 
 export type { AuditRow, Invitation, Person };
 export type MailMessage = MailboxMessage;
@@ -65,4 +66,15 @@ export function useTokenMutations() {
     create: useMutation({ mutationFn: (body: { name: string }) => api<{ id: number; token: string; name: string }>('/tokens', { method: 'POST', json: body }), onSuccess: refresh }),
     revoke: useMutation({ mutationFn: (id: number) => api(`/tokens/${id}`, { method: 'DELETE' }), onSuccess: refresh }),
   };
+}
+
+/** One's own release alerts (mail when new vintages move one's gaps). */
+export const useAlertSettings = () => useQuery({ queryKey: ['alert-settings'], queryFn: () => api<AlertSettings>('/profile/alerts') });
+
+export function useUpdateAlertSettings() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: AlertSettings) => api<AlertSettings>('/profile/alerts', { method: 'PUT', json: body }),
+    onSuccess: (data) => qc.setQueryData(['alert-settings'], data),
+  });
 }

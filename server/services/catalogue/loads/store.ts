@@ -11,6 +11,7 @@ import { iso } from '../rows.js';
 import { keepVintageMetadata } from '../vintages.js';
 import { allProblems, type CheckedLoad } from './preview.js';
 import { transaction } from '../../../lib/retry.js';
+import { notifyVintagesLanded, type AlertDeps } from '../../alerts/landed.js';
 
 const INSERT_ROWS = 10_000;
 
@@ -19,9 +20,10 @@ const INSERT_ROWS = 10_000;
  * series queue up and take the numbers n and n+1, never the same one. On a Galera cluster the
  * lock holds on one node only: a load on another node collides at commit on the unique
  * (series_id, number) and the whole transaction runs again (lib/retry.ts). A load with errors, a load
- * that changes nothing and a file that differs from the one previewed are refused.
+ * that changes nothing and a file that differs from the one previewed are refused. With `alerts`,
+ * the people whose gaps the new vintages move hear of it after the commit (services/alerts).
  */
-export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, fields: LoadFields, ip?: string, onProgress?: Progress): Promise<{ loadId: number; vintages: StoredLoadVintage[] }> {
+export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, fields: LoadFields, ip?: string, onProgress?: Progress, alerts?: AlertDeps): Promise<{ loadId: number; vintages: StoredLoadVintage[] }> {
   if (preview.errors > 0) {
     throw unprocessable('file_has_errors', `The file has ${preview.errors} problem${preview.errors === 1 ? '' : 's'} to fix before it can be stored; nothing was stored.`, allProblems(preview).filter((p) => p.severity === 'error').slice(0, 200));
   }
@@ -37,7 +39,7 @@ export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, f
   }
   const total = candidates.reduce((n, c) => n + c.rowCount, 0);
   let written = 0;
-  return transaction(db, async (trx) => {
+  const stored = await transaction(db, async (trx) => {
     written = 0; // a retried attempt reports its progress from the start
     const ids = candidates.map((c) => c.series!.id).sort((a, b) => a - b);
     for (let i = 0; i < ids.length; i += 1000) await trx('series').whereIn('id', ids.slice(i, i + 1000)).forUpdate().select('id');
@@ -96,6 +98,9 @@ export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, f
     await audit(trx, { actorId, action: 'load.store', targetType: 'load', targetId: loadId, details: { filename: preview.filename, vintages: out.map((o) => `${o.code}#${o.number}`).slice(0, 50), count: out.length }, ip });
     return { loadId, vintages: out };
   });
+  // After the commit: the vintages are there for whoever reads them, and a retried transaction mails once.
+  if (alerts) notifyVintagesLanded(alerts, { series: stored.vintages.map((v) => ({ seriesId: v.seriesId, numbers: [v.number] })), actorId, source: 'load', label: `a load of ${preview.filename}` });
+  return stored;
 }
 
 export async function listLoads(db: Db, limit = 100): Promise<LoadSummary[]> {
