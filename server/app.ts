@@ -29,6 +29,8 @@ import { boardRoutes } from './routes/boards.js';
 import { exhibitRoutes } from './routes/exhibits.js';
 import { chronologyRoutes } from './routes/chronology.js';
 import { printRoutes } from './routes/print.js';
+import { feedRoutes } from './routes/feeds.js';
+import { startFeedScheduler } from './services/feeds/scheduler.js';
 import { alertRoutes } from './routes/alerts.js';
 import { closePrintPool } from './workers/print-pool.js';
 import { configureObservationCache } from './services/catalogue/stored-values.js';
@@ -116,7 +118,7 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
   api.use(authenticate(db, deps.lucia));
   api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps), alertRoutes(deps)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps), alertRoutes(deps), feedRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));
@@ -139,7 +141,10 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
 
   app.use(errorHandler(logger, config));
   app.locals.routes = routes;
+  // Feeds' schedules: every instance may tick; a lease in the database lets one run each time.
+  const scheduler = options.feedScheduler ? startFeedScheduler(deps) : null;
   app.locals.shutdown = async () => {
+    await scheduler?.stop();
     await deps.background.idle();
     await deps.pool.close();
     await closePrintPool();

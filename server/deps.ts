@@ -22,6 +22,8 @@ export interface AppOptions {
   mailbox?: FakeMailServer;
   /** Worker threads for large batches; made from the configuration when not given. */
   pool?: AnalysisPool;
+  /** Start the feeds' scheduler with the app (the server does; tests tick it themselves). */
+  feedScheduler?: boolean;
 }
 
 export interface AppDeps extends AppOptions {

@@ -104,12 +104,20 @@ export function writeStructureSpecific(message: SdmxDataMessage): string {
   return out.join('\n');
 }
 
-/** Which answer a request asks for: `format` first, then the Accept header; SDMX-ML by default. */
+/** Which answer a request asks for: `format` first, then the Accept header (by quality, then order); SDMX-ML by default. */
 export function chooseDataFormat(format: string | undefined, accept: string | undefined): 'csv' | 'xml' {
   const f = (format ?? '').toLowerCase();
   if (['csv', 'sdmx-csv', 'csvfile', 'sdmxcsv'].includes(f)) return 'csv';
   if (['xml', 'sdmx-ml', 'structurespecificdata', 'structurespecific'].includes(f)) return 'xml';
-  const a = (accept ?? '').toLowerCase();
-  if (/application\/vnd\.sdmx\.data\+csv|text\/csv/.test(a) && !/structurespecificdata\+xml/.test(a)) return 'csv';
-  return 'xml';
+  const ranges = (accept ?? '')
+    .split(',')
+    .map((part, i) => {
+      const [type, ...params] = part.trim().toLowerCase().split(';');
+      const q = params.map((p) => /^\s*q=([\d.]+)/.exec(p)?.[1]).find(Boolean);
+      const kind = /csv/.test(type) ? 'csv' : /xml/.test(type) ? 'xml' : null;
+      return { kind, q: q === undefined ? 1 : Number(q), i };
+    })
+    .filter((r): r is { kind: 'csv' | 'xml'; q: number; i: number } => r.kind !== null && r.q > 0)
+    .sort((a, b) => b.q - a.q || a.i - b.i);
+  return ranges[0]?.kind ?? 'xml';
 }

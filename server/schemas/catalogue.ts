@@ -114,7 +114,8 @@ export interface SeriesPreview {
 
 /** The preview of a load: every series in the file, checked. */
 export interface LoadPreview {
-  format: 'csv' | 'sdmx-csv' | 'xlsx';
+  /** The file's format; `sdmx-ml` for an SDMX-ML data message a feed fetched. */
+  format: 'csv' | 'sdmx-csv' | 'xlsx' | 'sdmx-ml';
   filename: string;
   series: SeriesPreview[];
   /** Problems of the file as a whole (per-series problems are in `series`). */

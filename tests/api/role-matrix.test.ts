@@ -78,6 +78,10 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/series/:id/revisions/triangle', path: '/api/v1/series/999999/revisions/triangle', allow: SIGNED_IN },
   { route: 'POST /api/v1/loads', allow: STEWARDS },
   { route: 'GET /api/v1/loads', allow: SIGNED_IN },
+  { route: 'GET /api/v1/feeds', allow: STEWARDS },
+  { route: 'POST /api/v1/feeds', body: {}, allow: STEWARDS },
+  { route: 'POST /api/v1/feeds/:id/run', path: '/api/v1/feeds/999999/run', allow: STEWARDS },
+  { route: 'GET /api/v1/feeds/:id/runs', path: '/api/v1/feeds/999999/runs', allow: STEWARDS },
   // Analysis: anyone signed in may compute.
   { route: 'POST /api/v1/decompose', body: {}, allow: SIGNED_IN },
   { route: 'POST /api/v1/decompose/batch', body: {}, allow: SIGNED_IN },

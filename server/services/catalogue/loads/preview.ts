@@ -7,7 +7,7 @@ import type { Db } from '../../../db.js';
 import { unprocessable, type FileProblem } from '../../../lib/errors.js';
 import type { Progress } from '../../../lib/stream.js';
 import { checkObservations, splitSeries, type SeriesRows } from '../../../importers/observations.js';
-import { readTable, type FileFormat } from '../../../importers/table.js';
+import { readTable } from '../../../importers/table.js';
 import type { LoadPreview, RevisionRow, RevisionSummary, Series, SeriesPreview } from '../../../schemas/catalogue.js';
 import { compareVintages } from '../revisions.js';
 import { toSeries } from '../rows.js';
@@ -22,8 +22,13 @@ export interface CheckedSeries extends Omit<SeriesPreview, 'observations'> {
 
 /** A whole load, checked: what loads/store.ts stores. */
 export interface CheckedLoad extends Omit<LoadPreview, 'series'> {
-  format: FileFormat;
   series: CheckedSeries[];
+}
+
+/** A group of rows and the Catalogue series it goes to (none: the preview says so, as an error). */
+export interface AssignedGroup {
+  group: SeriesRows;
+  seriesId: number | undefined;
 }
 
 export interface UploadedFile {
@@ -99,6 +104,18 @@ export async function previewLoad(db: Db, file: UploadedFile, targetSeriesId?: n
   const problems: FileProblem[] = [];
   const assigned = await assignGroups(db, groups, table.format === 'sdmx-csv', targetSeriesId, problems);
 
+  return checkAssigned(db, { format: table.format, filename: file.filename, assigned, problems, onProgress });
+}
+
+/**
+ * Checks groups of rows already assigned to Catalogue series, as every load is checked: the
+ * observations against each series' frequency and unit, and against its latest vintage. A feed's
+ * run calls this with the series its mapping names.
+ */
+export async function checkAssigned(
+  db: Db,
+  { format, filename, assigned, problems, onProgress }: { format: LoadPreview['format']; filename: string; assigned: AssignedGroup[]; problems: FileProblem[]; onProgress?: Progress },
+): Promise<CheckedLoad> {
   const ids = [...new Set(assigned.map((a) => a.seriesId).filter((x): x is number => x !== undefined))];
   const meta = new Map<number, Series>();
   for (let i = 0; i < ids.length; i += 1000) {
@@ -127,8 +144,8 @@ export async function previewLoad(db: Db, file: UploadedFile, targetSeriesId?: n
   const errors = previews.reduce((n, p) => n + p.errors, 0);
   const warnings = previews.reduce((n, p) => n + p.warnings, 0) + problems.length;
   return {
-    format: table.format,
-    filename: file.filename,
+    format,
+    filename,
     series: previews,
     problems,
     errors,

@@ -1,0 +1,56 @@
+/**
+ * The feeds' scheduler, started with the server (croner, once a minute, in UTC). Each tick reads
+ * the enabled feeds from the database, finds each one's latest scheduled time up to now, and runs
+ * the feed when no run has started for that time yet. Every instance may tick: the lease
+ * (lease.ts) lets one of them run a given time, once. A time missed while every instance was down
+ * runs once at the next tick (not once per missed time). The scheduler keeps nothing in memory.
+ */
+import { Cron } from 'croner';
+import { SCHEDULE_ZONE, checkSchedule } from '../../schemas/feeds.js';
+import { toStoredFeed } from './registry.js';
+import { runFeed, type FeedDeps } from './run.js';
+
+/** The latest time the schedule names at or before `now`, or null. */
+export function latestSlot(schedule: string, now: Date): Date | null {
+  if (checkSchedule(schedule)) return null;
+  // croner reads the reference to the second and looks strictly before it: a second on, so that a
+  // tick at 09:30:00.004 finds 09:30 itself.
+  return new Cron(schedule, { paused: true, timezone: SCHEDULE_ZONE }).previousRuns(1, new Date(Math.floor(now.getTime() / 1000) * 1000 + 1000))[0] ?? null;
+}
+
+/** Runs every feed whose scheduled time has come; returns the ids of the feeds this tick ran. */
+export async function tickFeeds(deps: FeedDeps, now = new Date()): Promise<number[]> {
+  const rows = await deps.db('feeds as f').join('feed_leases as l', 'l.feed_id', 'f.id').where('f.enabled', true).whereNotNull('f.schedule').select('f.*', 'l.last_slot');
+  const ran: number[] = [];
+  for (const row of rows) {
+    const feed = toStoredFeed(row);
+    const slot = latestSlot(feed.schedule!, now);
+    // A time before the feed was registered, or one already run, is not due.
+    if (!slot || slot < feed.createdAt || (row.last_slot && new Date(row.last_slot) >= slot)) continue;
+    try {
+      const result = await runFeed(deps, feed.id, { trigger: 'schedule', slot });
+      if (result) ran.push(feed.id);
+    } catch (error) {
+      deps.logger?.error({ err: error, feedId: feed.id }, 'scheduled feed run failed');
+    }
+  }
+  return ran;
+}
+
+/** Starts the once-a-minute tick; `stop()` ends it (a tick in progress finishes). */
+export function startFeedScheduler(deps: FeedDeps): { stop(): Promise<void> } {
+  let running: Promise<void> = Promise.resolve();
+  const job = new Cron('* * * * *', { timezone: SCHEDULE_ZONE, protect: true }, () => {
+    running = tickFeeds(deps).then(
+      () => {},
+      (error) => deps.logger?.error({ err: error }, 'feed scheduler tick failed'),
+    );
+    return running;
+  });
+  return {
+    async stop() {
+      job.stop();
+      await running;
+    },
+  };
+}
