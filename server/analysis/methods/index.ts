@@ -8,20 +8,24 @@ import type { Frequency } from '../../schemas/frequency.js';
 import { FREQUENCIES } from '../../schemas/frequency.js';
 import { cutoffPeriod, lambdaPresets, type MethodDescription, type MethodsAnswer, type ParamValue } from '../../schemas/methods.js';
 import { baxterKing } from './baxter-king.js';
+import { bnFilterMethod } from './bn-filter.js';
 import { boostedHp } from './boosted-hp.js';
 import { christianoFitzgerald } from './christiano-fitzgerald.js';
 import { hamilton } from './hamilton.js';
+import { hamiltonAverage } from './hamilton-average.js';
 import { hp } from './hp.js';
+import { hpForecast } from './hp-forecast.js';
 import { hpOneSided } from './hp-one-sided.js';
 import { l1Trend } from './l1-trend.js';
 import { describeParams } from './params.js';
 import type { AnyMethod } from './types.js';
+import { uc } from './uc.js';
 import { whittaker } from './whittaker.js';
 
 export type { AnyMethod, MethodDefinition, MethodOutput } from './types.js';
 
 /** Every method, in the order lists show them. */
-export const METHOD_REGISTRY: readonly AnyMethod[] = [hp, hpOneSided, whittaker, hamilton, baxterKing, christianoFitzgerald, boostedHp, l1Trend];
+export const METHOD_REGISTRY: readonly AnyMethod[] = [hp, hpOneSided, whittaker, hamilton, baxterKing, christianoFitzgerald, boostedHp, l1Trend, hpForecast, hamiltonAverage, bnFilterMethod, uc];
 
 const byId = new Map(METHOD_REGISTRY.map((m) => [m.id, m]));
 
