@@ -7,6 +7,7 @@ import { exhibitDiff } from '../services/exhibits/diff.js';
 import { createExhibit, deleteExhibit, updateExhibit } from '../services/exhibits/drafts.js';
 import { getExhibit, listExhibits, publicExhibit } from '../services/exhibits/read.js';
 import { reviewQueue, transition } from '../services/exhibits/review.js';
+import { prepareUpdate } from '../services/exhibits/updates.js';
 import { exhibitExport } from '../services/exports.js';
 
 export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
@@ -77,6 +78,15 @@ export function exhibitRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['exhibits'],
       body: transitionSchema,
       handler: ({ params, body, auth, req }) => transition(deps, auth!.user, idParam(params.id, 'The exhibit'), body.to, body.comment || undefined, req.ip),
+    },
+    {
+      method: 'post',
+      path: '/exhibits/:id/update',
+      access: ACCESS.exhibitsDraft,
+      summary: 'Prepare an update of a published exhibit: a new draft linked to it, same settings, on the newest vintage',
+      tags: ['exhibits'],
+      status: 201,
+      handler: ({ params, auth, req }) => prepareUpdate(deps, auth!.user, idParam(params.id, 'The exhibit'), req.ip),
     },
     {
       method: 'get',

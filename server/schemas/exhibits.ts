@@ -3,7 +3,8 @@ import { z } from 'zod';
 import { notesSchema, titleSchema } from './boards.js';
 import type { ChronologyStamp } from './chronology.js';
 
-export const EXHIBIT_STATES = ['draft', 'in_review', 'returned', 'approved', 'published', 'withdrawn'] as const;
+/** `superseded`: a published exhibit whose update was published (it stays readable and points to its successor). */
+export const EXHIBIT_STATES = ['draft', 'in_review', 'returned', 'approved', 'published', 'withdrawn', 'superseded'] as const;
 export type ExhibitState = (typeof EXHIBIT_STATES)[number];
 
 const exhibitText = {
@@ -79,6 +80,8 @@ export interface ExhibitSummary {
   revision: number;
   studyId: number | null;
   panelId: number | null;
+  /** The published exhibit this one updates (issue 15). */
+  updateOf: number | null;
   author: { id: number; name: string };
   submittedAt: string | null;
   publishedAt: string | null;
@@ -97,6 +100,12 @@ export interface Exhibit extends ExhibitSummary {
   moves: { to: ExhibitState; comment: 'required' | 'optional' }[];
   editable: boolean;
   publicUrl: string | null;
+  /** The exhibit this one updates, as readable to the person asking. */
+  predecessor: { id: number; title: string; status: ExhibitState; publishedAt: string | null } | null;
+  /** The published update that superseded this exhibit. */
+  successor: { id: number; title: string; publishedAt: string | null } | null;
+  /** The vintage an update draws on when its study pins an older one. */
+  vintagePin: number | null;
 }
 
 /** A published exhibit by its public link: what the published figure shows, nothing of its making (services/exhibits/views.ts). */
@@ -107,9 +116,11 @@ export interface PublicExhibit {
   units: string | null;
   sourceLine: string | null;
   chartKind: 'cycle' | 'trend';
-  status: 'published';
+  status: 'published' | 'superseded';
   publishedAt: string | null;
   snapshot: Snapshot;
+  /** The public link of the update that superseded it. */
+  successorSlug: string | null;
 }
 
 /** What changed between two revisions. */
@@ -126,4 +137,6 @@ export interface ExhibitDiffAnswer {
   previous: Snapshot | null;
   current: Snapshot;
   diff: ExhibitDiff;
+  /** For an update: the published exhibit it would supersede, and what changed against it. */
+  published: { exhibitId: number; title: string; snapshot: Snapshot; diff: ExhibitDiff } | null;
 }

@@ -39,8 +39,8 @@ afterAll(async () => {
 const draft = async (who: Agent = author, title = 'The output gap of Estuary') => (await who.post('/api/v1/exhibits').send({ studyId, title, subtitle: 'Deviation of real GDP from its trend' }).expect(201)).body;
 const move = (who: Agent, id: number, to: ExhibitState, comment?: string) => who.post(`/api/v1/exhibits/${id}/transitions`).send({ to, ...(comment ? { comment } : {}) });
 
-/** Drives a new exhibit into `state` by the allowed moves. */
-async function inState(state: ExhibitState) {
+/** Drives a new exhibit into `state` by the allowed moves (superseded needs an update: exhibit-updates.test.ts). */
+async function inState(state: Exclude<ExhibitState, 'superseded'>) {
   const e = await draft();
   const path: [Agent, ExhibitState, string?][] = {
     draft: [],

@@ -119,6 +119,7 @@ export const MATRIX: Row[] = [
   { route: 'DELETE /api/v1/exhibits/:id', path: '/api/v1/exhibits/999999', allow: ['economist'] },
   { route: 'POST /api/v1/exhibits/:id/transitions', path: '/api/v1/exhibits/999999/transitions', body: {}, allow: SIGNED_IN },
   // Access and abuse (issue 17): what changed between revisions is review (per person: the author, editors, administrators).
+  { route: 'POST /api/v1/exhibits/:id/update', path: '/api/v1/exhibits/999999/update', allow: ['economist'] },
   { route: 'GET /api/v1/exhibits/:id/diff', path: '/api/v1/exhibits/999999/diff', allow: REVIEW_RECORD },
   { route: 'GET /api/v1/exhibits/:id/data', path: '/api/v1/exhibits/999999/data', allow: SIGNED_IN },
   { route: 'GET /api/v1/review', allow: ['editor'] },

@@ -57,5 +57,12 @@ export async function exhibitDiff(deps: ExhibitDeps, user: PublicUser, id: numbe
   const current = await latestRevision(deps.db, id);
   if (!current) throw conflict('not_submitted', 'The exhibit has not been submitted yet, so there is no revision to compare.');
   const previous = current.number > 1 ? await latestRevision(deps.db, id, current.number - 1) : null;
-  return { previous: previous?.snapshot ?? null, current: current.snapshot, diff: diffSnapshots(previous?.snapshot ?? null, current.snapshot, [previous?.number ?? null, current.number]) };
+  // An update is also compared with the published exhibit it would supersede.
+  let published: ExhibitDiffAnswer['published'] = null;
+  if (row.update_of) {
+    const old = await exhibitRow(deps.db, row.update_of);
+    const frozen = await latestRevision(deps.db, old.id);
+    if (frozen) published = { exhibitId: old.id, title: old.title, snapshot: frozen.snapshot, diff: diffSnapshots(frozen.snapshot, current.snapshot, [frozen.number, current.number]) };
+  }
+  return { previous: previous?.snapshot ?? null, current: current.snapshot, diff: diffSnapshots(previous?.snapshot ?? null, current.snapshot, [previous?.number ?? null, current.number]), published };
 }

@@ -23,7 +23,7 @@ export const MOVES: Move[] = [
 ];
 
 /** How each state reads in a sentence ("it can be approved only when it is in review"). */
-export const STATE_WORDS: Record<ExhibitState, string> = { draft: 'a draft', in_review: 'in review', returned: 'returned', approved: 'approved', published: 'published', withdrawn: 'withdrawn' };
+export const STATE_WORDS: Record<ExhibitState, string> = { draft: 'a draft', in_review: 'in review', returned: 'returned', approved: 'approved', published: 'published', withdrawn: 'withdrawn', superseded: 'superseded by its update' };
 
 /** The moves the user may make now (for the buttons on the exhibit page). */
 export function allowedMoves(user: PublicUser, row: Record<string, any>) {

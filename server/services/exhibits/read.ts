@@ -24,17 +24,29 @@ export interface ExhibitDeps {
 
 const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
 
+/**
+ * Exhibit rows with their author and their supersession: a published exhibit whose update was
+ * published reads as `superseded` (its own row is never changed; the link is a row of its own).
+ */
+const rows = (db: Db | Knex.Transaction) =>
+  db('exhibits as e')
+    .join('users as u', 'u.id', 'e.author_id')
+    .leftJoin('exhibit_supersessions as sup', 'sup.exhibit_id', 'e.id')
+    .select('e.*', 'u.name as author_name', 'u.email as author_email', 'sup.successor_id');
+
+const withSupersession = <T extends Record<string, any>>(row: T): T => (row.successor_id && row.status === 'published' ? { ...row, status: 'superseded' } : row);
+
 export async function exhibitRow(db: Db | Knex.Transaction, id: number, lock = false) {
-  const q = db('exhibits as e').join('users as u', 'u.id', 'e.author_id').where('e.id', id).select('e.*', 'u.name as author_name', 'u.email as author_email');
+  const q = rows(db).where('e.id', id);
   if (lock) q.forUpdate();
   const row = await q.first();
   if (!row) throw notFound('The exhibit');
-  return row;
+  return withSupersession(row);
 }
 
-/** Who may see which exhibits. Readers: published and withdrawn ones; authors: their own; editors: all but others' drafts. */
+/** Who may see which exhibits. Readers: published, superseded and withdrawn ones; authors: their own; editors: all but others' drafts. */
 export function canSee(user: PublicUser, row: Record<string, any>) {
-  if (row.status === 'published' || row.status === 'withdrawn') return true;
+  if (row.status === 'published' || row.status === 'withdrawn' || row.status === 'superseded') return true;
   if (row.author_id === user.id || user.roles.includes('admin')) return true;
   if (user.roles.includes('editor') && row.status !== 'draft') return true;
   return false;
@@ -68,6 +80,7 @@ export function summary(row: Record<string, any>): ExhibitSummary {
     revision: row.revision,
     studyId: row.study_id,
     panelId: row.panel_id,
+    updateOf: row.update_of ?? null,
     author: { id: row.author_id, name: row.author_name },
     submittedAt: iso(row.submitted_at),
     publishedAt: iso(row.published_at),
@@ -93,22 +106,42 @@ export async function getExhibit(deps: ExhibitDeps, user: PublicUser, id: number
     events: await events(db, id),
     moves: allowedMoves(user, row),
     editable,
-    publicUrl: row.status === 'published' && settings.publicExhibitLinks && row.public_slug ? `${deps.config.publicOrigin}/p/${row.public_slug}` : null,
+    publicUrl: (row.status === 'published' || row.status === 'superseded') && settings.publicExhibitLinks && row.public_slug ? `${deps.config.publicOrigin}/p/${row.public_slug}` : null,
+    ...(await lineage(db, user, row)),
   };
   return seesReview(user, row) ? exhibit : readerView(exhibit);
 }
 
+/** An update's predecessor (when the person may see it) and a superseded exhibit's successor. */
+async function lineage(db: Db, user: PublicUser, row: Record<string, any>): Promise<Pick<Exhibit, 'predecessor' | 'successor' | 'vintagePin'>> {
+  let predecessor: Exhibit['predecessor'] = null;
+  if (row.update_of) {
+    const p = await exhibitRow(db, row.update_of);
+    if (canSee(user, p)) predecessor = { id: p.id, title: p.title, status: p.status, publishedAt: iso(p.published_at) };
+  }
+  let successor: Exhibit['successor'] = null;
+  if (row.successor_id) {
+    const n = await exhibitRow(db, row.successor_id);
+    successor = { id: n.id, title: n.title, publishedAt: iso(n.published_at) };
+  }
+  return { predecessor, successor, vintagePin: row.vintage_pin ?? null };
+}
+
 export async function listExhibits(db: Db, user: PublicUser, filter: { status?: string; mine?: boolean }): Promise<ExhibitSummary[]> {
-  const q = db('exhibits as e').join('users as u', 'u.id', 'e.author_id').select('e.*', 'u.name as author_name').orderBy('e.updated_at', 'desc').limit(500);
-  if (filter.status) q.where('e.status', filter.status);
+  const q = rows(db).orderBy('e.updated_at', 'desc').limit(500);
+  if (filter.status === 'superseded') q.where('e.status', 'published').whereNotNull('sup.successor_id');
+  else if (filter.status === 'published') q.where('e.status', 'published').whereNull('sup.successor_id');
+  else if (filter.status) q.where('e.status', filter.status);
   if (filter.mine) q.where('e.author_id', user.id);
-  const rows = (await q).filter((r) => canSee(user, r));
-  return rows.map(summary);
+  const found = (await q).map(withSupersession).filter((r) => canSee(user, r));
+  return found.map(summary);
 }
 export async function publicExhibit(deps: ExhibitDeps, slug: string): Promise<PublicExhibit> {
   const settings = await getSettings(deps.db);
-  const row = await deps.db('exhibits as e').where('e.public_slug', slug).first('e.*');
-  if (!settings.publicExhibitLinks || !row || row.status !== 'published') throw notFound('The published exhibit');
+  const found = await rows(deps.db).where('e.public_slug', slug).first();
+  const row = found && withSupersession(found);
+  if (!settings.publicExhibitLinks || !row || (row.status !== 'published' && row.status !== 'superseded')) throw notFound('The published exhibit');
   const revision = await latestRevision(deps.db, row.id);
-  return publicCopy(row, revision!.snapshot);
+  const successor = row.successor_id ? await deps.db('exhibits').where('id', row.successor_id).first('public_slug') : null;
+  return publicCopy(row, revision!.snapshot, successor?.public_slug ?? null);
 }

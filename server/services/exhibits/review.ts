@@ -9,11 +9,13 @@ import { MOVES, STATE_WORDS } from './moves.js';
 import { canSee, exhibitRow, getExhibit, summary, type ExhibitDeps } from './read.js';
 import { buildSnapshot, snapshotChecksum } from './snapshots.js';
 import { transaction } from '../../lib/retry.js';
+import { supersedePredecessor } from './updates.js';
 
 export async function transition(deps: ExhibitDeps, user: PublicUser, id: number, to: ExhibitState, comment: string | undefined, ip?: string) {
   const { db } = deps;
   const move = MOVES.find((m) => m.to === to);
   const first = await exhibitRow(db, id);
+  if (to === 'superseded') throw conflict('move_not_allowed', 'An exhibit is superseded when its update is published: prepare an update of it instead.');
   if (!move) throw conflict('move_not_allowed', `No move leads back to ${STATE_WORDS[to]}.`);
   const needs: Role = move.by === 'author' ? 'economist' : 'editor';
   if (!user.roles.includes(needs)) throw forbidden('role_required', `This needs the ${needs} role.`, { roles: [needs] });
@@ -38,6 +40,7 @@ export async function transition(deps: ExhibitDeps, user: PublicUser, id: number
     if (to === 'published') {
       change.published_at = new Date();
       change.public_slug = cur.public_slug ?? randomToken(16);
+      await supersedePredecessor(trx, user, cur, ip);
     }
     await trx('exhibits').where('id', id).update(change);
     await trx('exhibit_events').insert({ exhibit_id: id, actor_id: user.id, from_status: cur.status, to_status: to, comment: comment ?? null, revision });

@@ -32,7 +32,7 @@ export function publicSnapshot(s: Snapshot): Snapshot {
 }
 
 /** A published exhibit as its public link shows it. */
-export function publicCopy(row: { public_slug: string; chart_kind: string; published_at: Date | string | null }, snapshot: Snapshot): PublicExhibit {
+export function publicCopy(row: { public_slug: string; chart_kind: string; published_at: Date | string | null; status: string }, snapshot: Snapshot, successorSlug: string | null = null): PublicExhibit {
   const s = publicSnapshot(snapshot);
   return {
     slug: row.public_slug,
@@ -41,7 +41,8 @@ export function publicCopy(row: { public_slug: string; chart_kind: string; publi
     units: s.text.units,
     sourceLine: s.text.sourceLine,
     chartKind: row.chart_kind === 'trend' ? 'trend' : 'cycle',
-    status: 'published',
+    status: row.status === 'superseded' ? 'superseded' : 'published',
+    successorSlug,
     publishedAt: row.published_at ? new Date(row.published_at).toISOString() : null,
     snapshot: s,
   };

@@ -3,12 +3,13 @@ import { useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useParams } from 'react-router-dom';
 import { z } from 'zod';
-import { fmt } from '@/components/charts/echarts';
 import { ACCESS, allows } from '@schemas/access';
 import { useAnnounce } from '@/components/Announcer';
 import { ErrorNote, Field, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
-import { MOVE_LABELS, STATE_LABELS, useDiff, useExhibit, useExhibitMutations, type Exhibit, type ExhibitState } from './api';
+import { MOVE_LABELS, STATE_LABELS, useExhibit, useExhibitMutations, type Exhibit, type ExhibitState } from './api';
+import { Lineage, PrepareUpdate } from './Lineage';
+import { ReviewPanel } from './ReviewPanel';
 import { ExhibitDownloads, ExhibitFigure } from './ExhibitFigure';
 import { useChronologies } from '@/features/chronology/api';
 
@@ -20,6 +21,7 @@ export function StateBadge({ state }: { state: ExhibitState }) {
     approved: 'border-trend text-trend',
     published: 'border-ok bg-ok-light text-ok',
     withdrawn: 'border-ink-faint text-ink-faint line-through',
+    superseded: 'border-ink-faint text-ink-soft',
   };
   return (
     <span className={`tag ${tone[state]}`} data-testid="exhibit-state">
@@ -158,51 +160,6 @@ function History({ exhibit }: { exhibit: Exhibit }) {
   );
 }
 
-function ReviewPanel({ exhibit }: { exhibit: Exhibit }) {
-  const diff = useDiff(exhibit.id, exhibit.revision > 0);
-  if (!diff.data) return diff.isPending ? <Spinner /> : <ErrorNote error={diff.error} />;
-  const d = diff.data.diff;
-  return (
-    <section className="space-y-3" aria-label="What changed" data-testid="review-diff">
-      <h2 className="font-heading text-lg font-bold">{d.from ? `What changed since revision ${d.from}` : 'First submission'}</h2>
-      {!d.from && <p className="text-sm text-ink-soft">This is the first revision submitted, so there is nothing earlier to compare with.</p>}
-      {d.from && (
-        <ul className="list-disc space-y-1 pl-5 text-sm">
-          {d.text.map((x) => (
-            <li key={x.field}>
-              <strong>{x.field}</strong>: “{x.before ?? '—'}” → “{x.after ?? '—'}”
-            </li>
-          ))}
-          {d.studies.map((x, i) => (
-            <li key={i}>
-              <strong>{x.what}</strong> of study {x.id}: {JSON.stringify(x.before)} → {JSON.stringify(x.after)}
-            </li>
-          ))}
-          {d.data.map((x) => (
-            <li key={x.line}>
-              data, {x.line}: {x.changedPeriods} period{x.changedPeriods === 1 ? '' : 's'} changed{x.newPeriods ? `, ${x.newPeriods} new` : ''}
-              {x.maxAbsChange !== null && <> (largest change {fmt(x.maxAbsChange, 3)})</>}
-            </li>
-          ))}
-          {!d.text.length && !d.studies.length && d.data.every((x) => !x.changedPeriods && !x.newPeriods) && <li>Nothing changed.</li>}
-        </ul>
-      )}
-      {diff.data.previous && (
-        <div className="grid gap-3 xl:grid-cols-2">
-          <div>
-            <p className="label">Revision {d.from} (reviewed before)</p>
-            <ExhibitFigure snapshot={diff.data.previous} titleLevel={3} />
-          </div>
-          <div>
-            <p className="label">Revision {d.to} (now)</p>
-            <ExhibitFigure snapshot={diff.data.current} titleLevel={3} />
-          </div>
-        </div>
-      )}
-    </section>
-  );
-}
-
 /** What screen readers hear after a review move. */
 function moveAnnouncement(e: Exhibit): string {
   const more: Partial<Record<ExhibitState, string>> = {
@@ -235,10 +192,12 @@ export function ExhibitPage() {
         kicker={<Link to="/exhibits" className="hover:underline">Exhibits</Link>}
         title={e.title}
         actions={
-          e.status === 'draft' && e.editable && (
+          e.status === 'draft' && e.editable ? (
             <button className="btn-danger" onClick={() => confirm('Delete this draft?') && remove.mutate(undefined, { onSuccess: () => navigate('/exhibits') })}>
               Delete the draft
             </button>
+          ) : (
+            <PrepareUpdate exhibit={e} />
           )
         }
       >
@@ -260,6 +219,7 @@ export function ExhibitPage() {
           Withdrawn: {[...e.events].reverse().find((ev) => ev.to === 'withdrawn')?.comment}
         </p>
       )}
+      <Lineage exhibit={e} />
       {e.status === 'returned' && lastReturn?.comment && e.editable && (
         <p className="mb-4 rounded border border-alert/40 bg-alert-light px-3 py-2 text-sm">
           Returned by {lastReturn.actor?.name}: “{lastReturn.comment}”

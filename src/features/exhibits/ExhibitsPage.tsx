@@ -58,6 +58,7 @@ export function ReviewDeskPage() {
             { accessorKey: 'submittedAt', header: 'Submitted', cell: (c) => formatDate(c.getValue(), true) },
             { accessorKey: 'title', header: 'Title', cell: (c) => <Link className="font-semibold text-trend hover:underline" to={`/exhibits/${c.row.original.id}`}>{c.getValue()}</Link> },
             { id: 'author', header: 'Author', accessorFn: (e) => e.author.name + (e.own ? ' (you)' : '') },
+            { id: 'kind', header: 'Kind', accessorFn: (e) => (e.updateOf ? `update of exhibit ${e.updateOf}` : 'new') },
             { accessorKey: 'revision', header: 'Revision', meta: { numeric: true } },
           ]}
         />

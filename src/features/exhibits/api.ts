@@ -11,6 +11,7 @@ export const STATE_LABELS: Record<ExhibitState, string> = {
   approved: 'approved',
   published: 'published',
   withdrawn: 'withdrawn',
+  superseded: 'superseded',
 };
 
 export const MOVE_LABELS: Record<ExhibitState, string> = {
@@ -20,6 +21,7 @@ export const MOVE_LABELS: Record<ExhibitState, string> = {
   published: 'Publish',
   withdrawn: 'Withdraw',
   draft: '',
+  superseded: '',
 };
 
 export const useExhibits = (filter: { status?: string; mine?: boolean }) =>
@@ -45,4 +47,16 @@ export function useExhibitMutations(id?: number) {
     move: useMutation({ mutationFn: (body: { to: ExhibitState; comment?: string }) => api<Exhibit>(`/exhibits/${id}/transitions`, { method: 'POST', json: body }), onSuccess: done }),
     remove: useMutation({ mutationFn: () => api(`/exhibits/${id}`, { method: 'DELETE' }), onSuccess: () => qc.invalidateQueries({ queryKey: ['exhibits'] }) }),
   };
+}
+
+/** Prepares an update of a published exhibit (a new draft linked to it); answers the new draft. */
+export function usePrepareUpdate(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<Exhibit>(`/exhibits/${id}/update`, { method: 'POST' }),
+    onSuccess: (e) => {
+      qc.setQueryData(['exhibit', e.id], e);
+      qc.invalidateQueries({ queryKey: ['exhibits'] });
+    },
+  });
 }
