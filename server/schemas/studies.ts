@@ -7,18 +7,24 @@ export const vintagePinSchema = z.union([z.number().int().positive(), z.literal(
 
 /** The study bodies, with `method` checked by the schema given (the server passes the registry's ids). */
 export function studySchemas(method: z.ZodType<string> = methodIdSchema) {
-  const studySpecSchema = z.object({
+  const fields = {
     seriesId: z.number({ error: 'Choose a series.' }).int().positive(),
-    vintage: vintagePinSchema.default('latest'),
-    transform: transformSchema.default('none'),
+    vintage: vintagePinSchema,
+    transform: transformSchema,
     method,
-    params: z.record(z.string(), z.unknown()).default({}),
-  });
-  const createStudySchema = studySpecSchema.extend({
+    params: z.record(z.string(), z.unknown()),
+  };
+  const text = {
     title: z.string({ error: 'Give the study a title.' }).trim().min(1, 'Give the study a title.').max(200, 'A title has at most 200 characters.'),
     notes: z.string().max(10_000, 'Notes have at most 10 000 characters.').optional(),
-  });
-  const updateStudySchema = createStudySchema.partial().refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
+  };
+  const studySpecSchema = z.object({ ...fields, vintage: fields.vintage.default('latest'), transform: fields.transform.default('none'), params: fields.params.default({}) });
+  const createStudySchema = studySpecSchema.extend(text);
+  // No defaults in a change: a field left out keeps its saved value (a default would reset it).
+  const updateStudySchema = z
+    .object({ ...fields, ...text })
+    .partial()
+    .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
   const compareSchema = z.object({
     items: z
       .array(studySpecSchema.extend({ label: z.string().max(100).optional() }))

@@ -86,6 +86,16 @@ describe('studies', () => {
     await viewer.post('/api/v1/studies').send(study()).expect(403);
   });
 
+  it('PATCH with a title alone keeps the vintage, transform, method and parameters', async () => {
+    const s = (await economist.post('/api/v1/studies').send({ title: 'pinned, logged', seriesId: gdpId, vintage: 3, transform: 'log100', method: 'hp', params: { lambda: 400 } }).expect(201)).body;
+    const renamed = (await economist.patch(`/api/v1/studies/${s.id}`).send({ title: 'renamed' }).expect(200)).body;
+    expect(renamed).toMatchObject({ title: 'renamed', vintage: 3, transform: 'log100', method: 'hp', params: { lambda: 400 } });
+    expect((await t.db('studies').where('id', s.id).first()).vintage_number).toBe(3);
+    // A change of one field keeps the others too.
+    const relogged = (await economist.patch(`/api/v1/studies/${s.id}`).send({ transform: 'log' }).expect(200)).body;
+    expect(relogged).toMatchObject({ title: 'renamed', vintage: 3, transform: 'log', params: { lambda: 400 } });
+  });
+
   it('previews unsaved parameters with statistics, turning points, gain and the cautions', async () => {
     const res = await economist.post('/api/v1/studies/preview').send({ seriesId: gdpId, vintage: 4, transform: 'log100', method: 'hp', params: { lambda: 1600 } }).expect(200);
     expect(res.body.methodLine).toBe('Hodrick–Prescott, λ = 1 600; 100 × log');
