@@ -34,5 +34,5 @@ export async function startServerUnderLoad(db, env = {}) {
     if (await fetch(`${base}/api/v1/health`).then((r) => r.ok, () => false)) break;
     await new Promise((r) => setTimeout(r, 200));
   }
-  return { base, stop };
+  return { base, stop, pid: server.pid };
 }

@@ -10,7 +10,7 @@ import { asOfQuerySchema, createSeriesSchema, loadFieldsSchema, updateSeriesSche
 import { listLoads, loadFile, type LoadRequest } from '../services/catalogue/loads.js';
 import { revisionTriangle, revisions } from '../services/catalogue/revisions.js';
 import { createSeries, deleteSeries, listSeries, resolveSeriesRef, updateSeries } from '../services/catalogue/series.js';
-import { listVintages, observationsOf, resolveVintage, vintageInForce } from '../services/catalogue/vintages.js';
+import { listVintages, observationsAsOf, resolveVintage, vintageObservations } from '../services/catalogue/vintages.js';
 import { vintageExport } from '../services/exports.js';
 
 const vintageRef = (v: string | undefined) => (v === 'latest' ? 'latest' : Number(v));
@@ -130,11 +130,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'The observations of a vintage (its number, or "latest")',
       tags: ['catalogue'],
-      handler: async ({ params }) => {
-        const v = await resolveVintage(db, await seriesOf(params.id), vintageRef(params.number));
-        const obs = await observationsOf(db, v.id);
-        return { vintage: v.number, asOf: v.asOf, ...obs };
-      },
+      handler: ({ params }) => vintageObservations(db, params.id, vintageRef(params.number)),
     },
     {
       method: 'get',
@@ -143,11 +139,7 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'The observations of the vintage in force on a date (?asOf=YYYY-MM-DD: the latest released on or before it); 404 before the first release',
       tags: ['catalogue'],
       query: asOfQuerySchema,
-      handler: async ({ params, query }): Promise<ObservationsAsOf> => {
-        const v = await vintageInForce(db, await seriesOf(params.series), query.asOf);
-        const obs = await observationsOf(db, v.id);
-        return { vintage: { number: v.number, asOf: v.asOf }, periods: obs.periods, values: obs.values };
-      },
+      handler: ({ params, query }): Promise<ObservationsAsOf> => observationsAsOf(db, params.series, query.asOf),
     },
     {
       method: 'get',

@@ -5,6 +5,7 @@ import { conflict, notFound } from '../../lib/errors.js';
 import type { CreateSeriesBody, Series, SeriesListItem } from '../../schemas/catalogue.js';
 import { audit } from '../audit.js';
 import { dateOnly, iso, toSeries } from './rows.js';
+import { whereHoldsPieces } from './search.js';
 import { transaction } from '../../lib/retry.js';
 
 export async function listSeries(db: Db, filter: { q?: string; frequency?: string; unit?: string } = {}): Promise<SeriesListItem[]> {
@@ -15,7 +16,11 @@ export async function listSeries(db: Db, filter: { q?: string; frequency?: strin
     })
     .select('s.*', 'v.number as v_number', 'v.as_of as v_as_of', 'v.created_at as v_created_at', 'v.last_period as v_last_period', 'v.row_count as v_rows')
     .orderBy('s.code');
-  if (filter.q) q.where((w) => w.whereILike('s.code', `%${filter.q}%`).orWhereILike('s.title', `%${filter.q}%`));
+  if (filter.q) {
+    // The index of three-character pieces finds the candidates; the LIKE decides, as it always did.
+    whereHoldsPieces(db, q, filter.q);
+    q.where((w) => w.whereILike('s.code', `%${filter.q}%`).orWhereILike('s.title', `%${filter.q}%`));
+  }
   if (filter.frequency) q.where('s.frequency', filter.frequency);
   if (filter.unit) q.where('s.unit', filter.unit);
   const rows = await q;

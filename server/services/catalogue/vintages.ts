@@ -1,11 +1,11 @@
 /** Vintages (immutable releases of a series) and their observations as stored. */
 import type { Knex } from 'knex';
-import type { Db } from '../../db.js';
+import { fastQuery, type Db } from '../../db.js';
 import { badRequest, notFound } from '../../lib/errors.js';
 import { sha256 } from '../../lib/secrets.js';
-import type { Vintage } from '../../schemas/catalogue.js';
-import { toVintage } from './rows.js';
-import { getSeries } from './series.js';
+import type { ObservationsAsOf, Vintage } from '../../schemas/catalogue.js';
+import { dateOnly, toVintage } from './rows.js';
+import { getSeries, resolveSeriesRef } from './series.js';
 
 /** A vintage with its database id, for the queries that follow. */
 export type StoredVintage = Vintage & { id: number };
@@ -59,6 +59,59 @@ export const vintageWhat = (which: number | 'latest' | string) => (which === 'la
 export async function observationsOf(db: Db | Knex.Transaction, vintageId: number): Promise<{ periods: string[]; values: (number | null)[] }> {
   const rows = await db('observations').where('vintage_id', vintageId).orderBy('period').select('period', 'value');
   return { periods: rows.map((r) => r.period), values: rows.map((r) => (r.value === null ? null : Number(r.value))) };
+}
+
+type VintageRows = { number: number; as_of: Date; period: string | null; value: number | null }[];
+
+/** A series' id without a query when the reference is one (resolveSeriesRef reads it otherwise). */
+async function seriesIdOf(db: Db, ref: string): Promise<number> {
+  const text = ref.trim();
+  const n = Number(text);
+  return /^\d{1,10}$/.test(text) && n > 0 && n <= 2 ** 31 ? n : (await resolveSeriesRef(db, ref)).id;
+}
+
+/** A vintage's rows (the vintage chosen by `which`, SQL over `v2` with `?` for the series) in one round trip. */
+async function vintageRows(db: Db, seriesId: number, which: string, bindings: unknown[]) {
+  const rows = await fastQuery<VintageRows[number]>(
+    db,
+    `SELECT v.number, v.as_of, o.period, o.value FROM vintages v LEFT JOIN observations o ON o.vintage_id = v.id
+      WHERE v.id = (SELECT v2.id FROM vintages v2 WHERE v2.series_id = ? ${which} LIMIT 1) ORDER BY o.period`,
+    [seriesId, ...bindings],
+  );
+  if (rows.length === 0) return null;
+  const stored = rows[0].period === null ? [] : rows;
+  return { number: rows[0].number, asOf: dateOnly(rows[0].as_of), periods: stored.map((r) => r.period!), values: stored.map((r) => (r.value === null ? null : Number(r.value))) };
+}
+
+/**
+ * A vintage's number, as-of date and stored rows (its number or "latest") of the series `ref` (id
+ * or code) in one query: GET …/vintages/:number/observations, read on every chart of a stored
+ * series. The same answers and errors as resolveSeriesRef, resolveVintage and observationsOf.
+ */
+export async function vintageObservations(db: Db, ref: string, which: number | 'latest' | string): Promise<{ vintage: number; asOf: string; periods: string[]; values: (number | null)[] }> {
+  const latest = which === 'latest';
+  const n = Number(which);
+  if (!latest && (!Number.isInteger(n) || n < 1)) {
+    await resolveSeriesRef(db, ref);
+    throw badRequest('invalid_vintage', 'A vintage is a number (1, 2, …) or "latest".');
+  }
+  const found = await vintageRows(db, await seriesIdOf(db, ref), latest ? 'ORDER BY v2.number DESC' : 'AND v2.number = ?', latest ? [] : [n]);
+  if (!found) {
+    await resolveSeriesRef(db, ref);
+    throw notFound(vintageWhat(which));
+  }
+  const { number, ...rest } = found;
+  return { vintage: number, ...rest };
+}
+
+/** The vintage in force on `date` with its stored rows, in one query (GET /series/:series/observations?asOf=); as vintageInForce. */
+export async function observationsAsOf(db: Db, ref: string, date: string): Promise<ObservationsAsOf> {
+  const found = await vintageRows(db, await seriesIdOf(db, ref), 'AND v2.as_of <= ? ORDER BY v2.as_of DESC, v2.number DESC', [date]);
+  if (!found) {
+    await resolveSeriesRef(db, ref);
+    throw notFound(`A vintage of this series released on or before ${date} (none was released by then)`);
+  }
+  return { vintage: { number: found.number, asOf: found.asOf }, periods: found.periods, values: found.values };
 }
 
 /** sha256 of the canonical observations ("period,value" lines): a vintage's checksum. */
