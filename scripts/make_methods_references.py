@@ -130,6 +130,18 @@ def bn_refs(y):
                         'p': p, 'delta': delta, 'phi': [float(v) for v in phis], 'cycle': arr(c)}}
 
 
+def range_refs():
+    rng = np.random.default_rng(13)
+    cycles = rng.normal(size=(7, 40))
+    cycles[rng.random(size=(7, 40)) < 0.2] = np.nan
+    cycles[:, 5] = np.nan
+    return {'source': 'numpy.nanmedian, nanmin, nanmax over methods; numpy.quantile (linear) of the first row',
+            'cycles': [arr(c) for c in cycles],
+            'median': arr(np.nanmedian(cycles, axis=0)), 'min': arr(np.nanmin(cycles, axis=0)), 'max': arr(np.nanmax(cycles, axis=0)),
+            'quantiles': {'q': [0.05, 0.5, 0.95], 'of': arr(cycles[1][~np.isnan(cycles[1])]),
+                          'values': [float(np.quantile(cycles[1][~np.isnan(cycles[1])], q)) for q in (0.05, 0.5, 0.95)]}}
+
+
 def main():
     y = load()
     r = minimize(rosen, [-1.2, 1.0], method='BFGS')
@@ -141,6 +153,7 @@ def main():
         'hpForecast': hp_forecast_refs(y),
         'hamiltonAverage': hamilton_average_refs(y),
         'bn': bn_refs(y),
+        'range': range_refs(),
         'bfgs': {'source': "scipy.optimize.minimize(rosen, [-1.2, 1], method='BFGS')", 'x': [float(v) for v in r.x], 'fun': float(r.fun)},
     }
     path = os.path.join(ROOT, 'tests/fixtures/methods-references.json')

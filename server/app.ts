@@ -24,6 +24,7 @@ import { openapiRoutes } from './routes/openapi.js';
 import { peopleRoutes } from './routes/people.js';
 import { catalogueRoutes } from './routes/catalogue.js';
 import { decomposeRoutes } from './routes/decompose.js';
+import { analysisRoutes } from './routes/analyses.js';
 import { studyRoutes } from './routes/studies.js';
 import { boardRoutes } from './routes/boards.js';
 import { exhibitRoutes } from './routes/exhibits.js';
@@ -118,7 +119,7 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
   api.use(authenticate(db, deps.lucia));
   api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps), alertRoutes(deps), feedRoutes(deps)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), analysisRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps), alertRoutes(deps), feedRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));

@@ -15,6 +15,8 @@ export const ACCESS = {
   studiesRead: ['economist', 'editor', 'admin'],
   /** Saving, changing (one's own) and duplicating studies. */
   studiesWrite: ['economist'],
+  /** Analyses across methods: the range of estimates and the real-time reliability table. */
+  analyses: ['economist'],
   /** Composing boards and their panels. */
   boardsWrite: ['economist'],
   /** Drafting exhibits (the moves of review are checked per person by the state machine). */

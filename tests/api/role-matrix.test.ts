@@ -73,6 +73,7 @@ export const MATRIX: Row[] = [
   { route: 'DELETE /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:id/vintages/:number/observations', path: '/api/v1/series/999999/vintages/latest/observations', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:series/observations', path: '/api/v1/series/999999/observations?asOf=2020-01-01', allow: SIGNED_IN },
+  { route: 'POST /api/v1/series/:series/reliability', path: '/api/v1/series/999999/reliability', body: {}, allow: ['economist'] },
   { route: 'GET /api/v1/series/:id/vintages/:number/export', path: '/api/v1/series/999999/vintages/1/export', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:id/revisions', path: '/api/v1/series/999999/revisions', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:id/revisions/triangle', path: '/api/v1/series/999999/revisions/triangle', allow: SIGNED_IN },
@@ -93,6 +94,7 @@ export const MATRIX: Row[] = [
   { route: 'POST /api/v1/studies', body: {}, allow: ['economist'] },
   { route: 'POST /api/v1/studies/preview', body: {}, allow: STUDY_READERS },
   { route: 'POST /api/v1/studies/compare', body: {}, allow: STUDY_READERS },
+  { route: 'POST /api/v1/studies/range', body: {}, allow: ['economist'] },
   { route: 'GET /api/v1/studies/:id', path: '/api/v1/studies/999999', allow: STUDY_READERS },
   { route: 'PATCH /api/v1/studies/:id', path: '/api/v1/studies/999999', body: { title: 'x' }, allow: ['economist'] },
   { route: 'DELETE /api/v1/studies/:id', path: '/api/v1/studies/999999', allow: ['economist'] },
@@ -223,7 +225,7 @@ describe('role matrix', () => {
 // never for anyone else, and never on a public route.
 
 /** Writes that only read: they compute from stored work and change nothing. */
-const READING_POSTS = new Set(['POST /api/v1/studies/:id/realtime', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'POST /api/v1/decompose', 'POST /api/v1/decompose/batch']);
+const READING_POSTS = new Set(['POST /api/v1/studies/range', 'POST /api/v1/series/:series/reliability', 'POST /api/v1/studies/:id/realtime', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'POST /api/v1/decompose', 'POST /api/v1/decompose/batch']);
 
 interface Canary {
   text: string;

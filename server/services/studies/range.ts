@@ -1,0 +1,56 @@
+/**
+ * The range of gap estimates across methods on one stored series: each method's cycle on aligned
+ * periods, and per period the median, minimum and maximum across the methods that have a value.
+ * The decompositions run through runBatch (worker threads for all but small work with cheap methods).
+ */
+import { methodLine, methodName, findMethod } from '../../analysis/index.js';
+import { rangeAcross } from '../../analysis/range.js';
+import type { Db } from '../../db.js';
+import { HttpError } from '../../lib/errors.js';
+import { alignByPeriod } from '../../schemas/align.js';
+import type { RangeBody, RangeResult } from '../../schemas/analyses.js';
+import { CAUTIONS, RANGE_CAUTION } from '../../schemas/cautions.js';
+import type { DecomposeJson } from '../../schemas/decompose.js';
+import type { AnalysisPool } from '../../workers/pool.js';
+import type { FailedItem } from '../../workers/batch-types.js';
+import { readSeriesValues } from '../catalogue/stored-values.js';
+import { runBatch } from '../decompose.js';
+import { cycleUnit } from './results.js';
+
+const toNaN = (a: (number | null)[]) => Float64Array.from(a, (v) => (v === null ? NaN : v));
+const toNull = (a: ArrayLike<number>) => Array.from(a, (v) => (Number.isFinite(v) ? v : null));
+
+export async function rangeOfEstimates(db: Db, pool: AnalysisPool | undefined, body: RangeBody): Promise<RangeResult> {
+  const data = await readSeriesValues(db, body.seriesId, body.vintage);
+  const frequency = data.series.frequency;
+  const items = body.methods.map((m, k) => ({ id: String(k), frequency, start: data.start ?? undefined, values: data.values, transform: body.transform, method: m.method, params: m.params }));
+  const answers = (await runBatch(items, 'full', pool)).map((j) => JSON.parse(j) as DecomposeJson & FailedItem);
+  const failed = answers.findIndex((a) => a.error);
+  if (failed >= 0) {
+    const a = answers[failed];
+    throw new HttpError(400, a.error.code, `methods[${failed}] (${methodName(body.methods[failed].method)}): ${a.error.message}`, [{ path: `methods.${failed}`, message: a.error.message }]);
+  }
+  const aligned = alignByPeriod(answers.map((a) => ({ periods: a.periods ?? data.periods, values: a.cycle })));
+  const range = rangeAcross(aligned.values.map(toNaN));
+  return {
+    series: { id: data.series.id, code: data.series.code, title: data.series.title, unit: data.series.unit, frequency },
+    vintage: data.vintage.number,
+    asOf: data.vintage.asOf,
+    transform: body.transform,
+    unitOfCycle: cycleUnit(body.transform, data.series.unit),
+    periods: aligned.periods,
+    items: answers.map((a, k) => ({
+      method: a.method,
+      params: a.params,
+      name: methodName(a.method),
+      methodLine: methodLine(a.method, a.params, undefined, a.diagnostics),
+      twoSided: findMethod(a.method)!.twoSided,
+      cycle: aligned.values[k],
+    })),
+    median: toNull(range.median),
+    min: toNull(range.min),
+    max: toNull(range.max),
+    count: Array.from(range.count),
+    cautions: [...CAUTIONS, RANGE_CAUTION],
+  };
+}
