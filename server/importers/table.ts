@@ -6,7 +6,7 @@
 import ExcelJS from 'exceljs';
 import Papa from 'papaparse';
 import { unprocessable } from '../lib/errors.js';
-import { inspectZip } from './zip.js';
+import { openWorkbook } from './workbook.js';
 
 export type FileFormat = 'csv' | 'sdmx-csv' | 'xlsx';
 
@@ -99,14 +99,7 @@ export function parseDelimited(buf: Buffer, format: 'csv' | 'sdmx-csv'): Table {
 }
 
 export async function parseXlsx(buf: Buffer): Promise<Table> {
-  const check = inspectZip(buf);
-  if (!check.ok) throw unprocessable('unsafe_workbook', check.message!);
-  const wb = new ExcelJS.Workbook();
-  try {
-    await wb.xlsx.load(buf as unknown as ArrayBuffer);
-  } catch (error) {
-    throw unprocessable('unreadable_workbook', `The XLSX workbook could not be read (${(error as Error).message.slice(0, 120)}); save it again from your spreadsheet program.`);
-  }
+  const { workbook: wb } = await openWorkbook(buf);
   const ws = wb.worksheets[0];
   if (!ws) throw unprocessable('empty_file', 'The workbook has no worksheet.');
   const rows: string[][] = [];
@@ -141,7 +134,8 @@ export async function parseXlsx(buf: Buffer): Promise<Table> {
   return { format: 'xlsx', header, eachRow: (visit) => rows.forEach((cells, i) => visit(cells, i + 2)) };
 }
 
-function cellText(v: ExcelJS.CellValue): string {
+/** A cell's value as text: dates as YYYY-MM-DD, rich text joined, errors as their code. */
+export function cellText(v: ExcelJS.CellValue): string {
   if (v === null || v === undefined) return '';
   if (v instanceof Date) return v.toISOString().slice(0, 10);
   if (typeof v === 'number') return String(v);
