@@ -7,7 +7,7 @@
  */
 import Papa from 'papaparse';
 import ExcelJS from 'exceljs';
-import { notFound, unprocessable } from '../lib/errors.js';
+import { badRequest, unprocessable } from '../lib/errors.js';
 import { cellText, decodeText, detectFormat, MAX_ROWS } from './table.js';
 import { openWorkbook } from './workbook.js';
 
@@ -51,7 +51,7 @@ async function readWorkbookGrid(buf: Buffer, sheet: string | undefined, preferSh
   let ws: ExcelJS.Worksheet | undefined;
   if (sheet) {
     ws = named(sheet);
-    if (!ws) throw Object.assign(notFound(`A sheet named "${sheet.slice(0, 60)}"`), { message: `The workbook has no sheet named "${sheet.slice(0, 60)}"; its sheets are ${sheets.map((s) => `"${s}"`).join(', ')}.` });
+    if (!ws) throw badRequest('sheet_not_found', `The workbook has no sheet named "${sheet.slice(0, 60)}"; its sheets are ${sheets.map((s) => `"${s}"`).join(', ')}.`);
   } else {
     ws = (preferSheet && named(preferSheet)) || workbook.worksheets.find((w) => w.actualRowCount > 0) || workbook.worksheets[0];
   }

@@ -12,6 +12,9 @@ import { revisionTriangle, revisions } from '../services/catalogue/revisions.js'
 import { createSeries, deleteSeries, listSeries, resolveSeriesRef, updateSeries } from '../services/catalogue/series.js';
 import { listVintages, observationsAsOf, resolveVintage, vintageObservations } from '../services/catalogue/vintages.js';
 import { vintageExport } from '../services/exports.js';
+import { historyExportQuerySchema, historyFieldsSchema } from '../schemas/history.js';
+import { loadHistory } from '../services/catalogue/history.js';
+import { historyExport } from '../services/catalogue/history-export.js';
 
 const vintageRef = (v: string | undefined) => (v === 'latest' ? 'latest' : Number(v));
 
@@ -101,6 +104,34 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
         const answer = await loadFile(db, { ...input, seriesId, alerts: deps });
         res.status(input.dryRun ? 200 : 201).json(answer);
       },
+    },
+    {
+      method: 'post',
+      path: '/series/:series/history',
+      access: ACCESS.catalogueWrite,
+      summary: 'Load a whole release history (CSV or XLSX, wide or long) as vintages in release order (?dryRun=1 previews and stores nothing)',
+      tags: ['catalogue'],
+      before: [upload(config.maxUploadBytes)],
+      raw: true,
+      handler: async ({ params, req, res }) => {
+        const seriesId = await seriesOf(params.series);
+        if (!req.file) throw badRequest('file_missing', 'Attach the file in a field named "file".');
+        const b = req.body ?? {};
+        const fields = parseOr400(historyFieldsSchema, { sheet: b.sheet || undefined, headerRow: b.headerRow || undefined, releaseDateRow: b.releaseDateRow || undefined, layout: b.layout || undefined, note: b.note || undefined }, 'history load');
+        const dryRun = ['1', 'true', 'yes'].includes(String(req.query.dryRun ?? '').toLowerCase());
+        const answer = await loadHistory(db, { seriesId, file: { buffer: req.file.buffer, filename: req.file.originalname || 'upload' }, fields, dryRun, actor: { id: req.auth!.user.id, ip: req.ip }, alerts: deps });
+        res.status(dryRun ? 200 : 201).json(answer);
+      },
+    },
+    {
+      method: 'get',
+      path: '/series/:series/history',
+      access: 'signedIn',
+      summary: 'The release table: periods down, one column per vintage, release dates in the row above the header (CSV or XLSX); it loads back to identical vintages',
+      tags: ['catalogue'],
+      query: historyExportQuerySchema,
+      raw: true,
+      handler: async ({ params, query, res }) => sendFile(res, await historyExport(db, await seriesOf(params.series), query.format)),
     },
     {
       method: 'get',

@@ -72,6 +72,8 @@ export const MATRIX: Row[] = [
   { route: 'PATCH /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', body: {}, allow: SIGNED_IN },
   { route: 'DELETE /api/v1/series/:id/vintages/:number', path: '/api/v1/series/999999/vintages/1', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:id/vintages/:number/observations', path: '/api/v1/series/999999/vintages/latest/observations', allow: SIGNED_IN },
+  { route: 'POST /api/v1/series/:series/history', path: '/api/v1/series/999999/history', allow: STEWARDS },
+  { route: 'GET /api/v1/series/:series/history', path: '/api/v1/series/999999/history', allow: SIGNED_IN },
   { route: 'GET /api/v1/series/:series/observations', path: '/api/v1/series/999999/observations?asOf=2020-01-01', allow: SIGNED_IN },
   { route: 'POST /api/v1/series/:series/reliability', path: '/api/v1/series/999999/reliability', body: {}, allow: ['economist'] },
   { route: 'GET /api/v1/series/:id/vintages/:number/export', path: '/api/v1/series/999999/vintages/1/export', allow: SIGNED_IN },

@@ -114,6 +114,28 @@ export async function observationsAsOf(db: Db, ref: string, date: string): Promi
   return { vintage: { number: found.number, asOf: found.asOf }, periods: found.periods, values: found.values };
 }
 
+const INSERT_ROWS = 10_000;
+
+/**
+ * Inserts a new vintage's observations in batches of 10 000 rows, calling `onRows` after each.
+ * Periods are canonical SDMX strings (digits, "-" and "Q", checked here) and values finite numbers
+ * or null, so the VALUES list is built directly: much faster than binding every row.
+ */
+export async function insertObservations(trx: Knex.Transaction, vintageId: number, periods: string[], values: (number | null)[], onRows?: (rows: number) => void) {
+  for (let i = 0; i < periods.length; i += INSERT_ROWS) {
+    let sql = 'INSERT INTO observations (vintage_id, period, value) VALUES ';
+    const end = Math.min(periods.length, i + INSERT_ROWS);
+    for (let j = i; j < end; j++) {
+      const p = periods[j];
+      if (!/^[0-9Q-]{4,7}$/.test(p)) throw new Error(`unexpected period ${p}`);
+      const v = values[j];
+      sql += `${j > i ? ',' : ''}(${Number(vintageId)},'${p}',${v === null || !Number.isFinite(v) ? 'NULL' : String(v)})`;
+    }
+    await trx.raw(sql);
+    onRows?.(end - i);
+  }
+}
+
 /** sha256 of the canonical observations ("period,value" lines): a vintage's checksum. */
 export function checksumOf(periods: string[], values: (number | null)[]): string {
   let text = '';

@@ -8,12 +8,10 @@ import type { Progress } from '../../../lib/stream.js';
 import type { LoadFields, LoadSummary, StoredLoadVintage } from '../../../schemas/catalogue.js';
 import { audit } from '../../audit.js';
 import { iso } from '../rows.js';
-import { keepVintageMetadata } from '../vintages.js';
+import { insertObservations, keepVintageMetadata } from '../vintages.js';
 import { allProblems, type CheckedLoad } from './preview.js';
 import { transaction } from '../../../lib/retry.js';
 import { notifyVintagesLanded, type AlertDeps } from '../../alerts/landed.js';
-
-const INSERT_ROWS = 10_000;
 
 /**
  * Stores a checked load. Series rows are locked in id order, so concurrent loads of the same
@@ -77,21 +75,10 @@ export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, f
         load_id: loadId,
         created_by: actorId,
       });
-      for (let i = 0; i < c.periods.length; i += INSERT_ROWS) {
-        // Periods are canonical SDMX strings (digits, "-" and "Q") and values are finite numbers,
-        // checked above, so the VALUES list is built directly: much faster than per-row binding.
-        let sql = 'INSERT INTO observations (vintage_id, period, value) VALUES ';
-        const end = Math.min(c.periods.length, i + INSERT_ROWS);
-        for (let j = i; j < end; j++) {
-          const p = c.periods[j];
-          if (!/^[0-9Q-]{4,7}$/.test(p)) throw new Error(`unexpected period ${p}`);
-          const v = c.values[j];
-          sql += `${j > i ? ',' : ''}(${vintageId},'${p}',${v === null ? 'NULL' : Number.isFinite(v) ? String(v) : 'NULL'})`;
-        }
-        await trx.raw(sql);
-        written += end - i;
+      await insertObservations(trx, vintageId, c.periods, c.values, (rows) => {
+        written += rows;
         onProgress?.('storing', written, total);
-      }
+      });
       out.push({ seriesId: c.series!.id, code: c.series!.code, number, asOf, rowCount: c.rowCount, checksum: c.checksum! });
     }
     await keepVintageMetadata(trx, loadId);
