@@ -11,6 +11,7 @@ import {
   ensureMariadbInstalled,
   ensureNodeModules,
   ensurePrintTools,
+  ensureSdmxClient,
   log,
   provideDatabase,
   root,
@@ -21,6 +22,7 @@ const bins = ensureMariadbInstalled();
 const chromium = ensureChromium();
 ensureClusterPackages();
 ensurePrintTools();
+ensureSdmxClient();
 // The tests make their own databases (tidegauge_test_…) on this server; the demo database is
 // never touched.
 const db = await provideDatabase('tidegauge_test');

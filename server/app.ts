@@ -31,6 +31,7 @@ import { exhibitRoutes } from './routes/exhibits.js';
 import { chronologyRoutes } from './routes/chronology.js';
 import { printRoutes } from './routes/print.js';
 import { feedRoutes } from './routes/feeds.js';
+import { sdmxRoutes } from './routes/sdmx.js';
 import { startFeedScheduler } from './services/feeds/scheduler.js';
 import { alertRoutes } from './routes/alerts.js';
 import { closePrintPool } from './workers/print-pool.js';
@@ -119,7 +120,7 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
   api.use(authenticate(db, deps.lucia));
   api.use(originCheck(config));
 
-  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), analysisRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps), alertRoutes(deps), feedRoutes(deps)];
+  const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), analysisRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps), alertRoutes(deps), feedRoutes(deps), sdmxRoutes(deps)];
   for (const specs of groups) mount(api, API_PREFIX, specs, routes);
 
   api.use((req, _res, next) => next(new HttpError(404, 'not_found', `There is no API route ${req.method} ${req.baseUrl}${req.path}.`)));

@@ -150,6 +150,13 @@ export function ensurePrintTools() {
   if (missing.length) aptInstall(missing, `The print tests read PDFs with poppler-utils and CSV files with pandas (${missing.join(', ')} missing).`);
 }
 
+/** The SDMX tests read our SDMX REST answers with a real client: Debian's R package rsdmx (issue 15). */
+export function ensureSdmxClient() {
+  if (spawnSync('Rscript', ['-e', 'library(rsdmx)'], { stdio: 'ignore' }).status !== 0) {
+    aptInstall(['r-cran-rsdmx'], 'The SDMX tests read our SDMX answers with R\'s rsdmx (r-cran-rsdmx), which is not installed.');
+  }
+}
+
 // ---------------------------------------------------------------- private MariaDB
 
 function portOpen(port, host = '127.0.0.1') {

@@ -11,7 +11,8 @@ import { MAX_KEY_DIMENSIONS, MAX_KEY_LENGTH, type SeriesRows } from './observati
 import { decodeText } from './table.js';
 
 /** Series-level XML attributes that are SDMX attributes or message machinery, not key dimensions. */
-const NOT_DIMENSIONS = new Set(['UNIT_MEASURE', 'UNIT', 'UNIT_MULT', 'DECIMALS', 'TITLE', 'TITLE_COMPL', 'TIME_FORMAT', 'COLLECTION', 'BASE_PER', 'SOURCE_AGENCY', 'COMPILATION', 'COMMENT', 'OBS_STATUS', 'OBS_CONF', 'TYPE', 'ACTION', 'VALIDFROMDATE', 'VALIDTODATE']);
+// VINTAGE and AS_OF: the attributes of Tidegauge's own SDMX out (a vintage's number and release date).
+const NOT_DIMENSIONS = new Set(['VINTAGE', 'AS_OF', 'UNIT_MEASURE', 'UNIT', 'UNIT_MULT', 'DECIMALS', 'TITLE', 'TITLE_COMPL', 'TIME_FORMAT', 'COLLECTION', 'BASE_PER', 'SOURCE_AGENCY', 'COMPILATION', 'COMMENT', 'OBS_STATUS', 'OBS_CONF', 'TYPE', 'ACTION', 'VALIDFROMDATE', 'VALIDTODATE']);
 const MAX_SERIES = 100_000;
 
 type Node = Record<string, unknown>;
