@@ -9,6 +9,9 @@ let code = 0;
 if (only.length === 0 || only.includes('analysis')) {
   code ||= spawnSync(process.execPath, ['--expose-gc', ...tsxArgs('scripts/bench/analysis.ts')], { cwd: root, stdio: 'inherit' }).status ?? 1;
 }
+if (only.length === 0 || only.includes('methods')) {
+  code ||= spawnSync(process.execPath, ['--expose-gc', ...tsxArgs('scripts/bench/methods.ts')], { cwd: root, stdio: 'inherit' }).status ?? 1;
+}
 if (only.length === 0 || only.includes('loads')) {
   const db = await provideDatabase('tidegauge_bench');
   code ||= spawnSync(process.execPath, ['--expose-gc', ...tsxArgs('scripts/bench/loads.ts')], { cwd: root, stdio: 'inherit', env: { ...process.env, DATABASE_URL: db.url } }).status ?? 1;

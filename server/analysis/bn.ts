@@ -38,14 +38,19 @@ export interface BnResult {
  * linear in ρ (φ* = s₀ − ρ·s₁ with s₀, s₁ the least-squares solutions for xₜ and xₜ₋₁), so one QR
  * serves every ρ of a grid.
  */
-function restrictedAr(x: Float64Array, p: number): (rho: number) => { phi: number[]; sigma2: number } {
+type Restricted = ((rho: number) => { phi: number[]; sigma2: number }) & { s0: number[]; s1: number[]; saa: number; sab: number; sbb: number; rows: number };
+
+function restrictedAr(x: Float64Array, p: number): Restricted {
   const rows = x.length - p;
   if (p === 1) {
-    return (rho) => {
-      let ssr = 0;
-      for (let t = 1; t < x.length; t++) ssr += (x[t] - rho * x[t - 1]) ** 2;
-      return { phi: [rho], sigma2: ssr / (x.length - 1) };
-    };
+    let saa = 0, sab = 0, sbb = 0;
+    for (let t = 1; t < x.length; t++) {
+      saa += x[t] * x[t];
+      sab += x[t] * x[t - 1];
+      sbb += x[t - 1] * x[t - 1];
+    }
+    const f = (rho: number) => ({ phi: [rho], sigma2: (saa - 2 * rho * sab + rho * rho * sbb) / rows });
+    return Object.assign(f, { s0: [], s1: [], saa, sab, sbb, rows });
   }
   const X = new Matrix(rows, p - 1);
   const Y = new Matrix(rows, 2);
@@ -70,7 +75,7 @@ function restrictedAr(x: Float64Array, p: number): (rho: number) => { phi: numbe
     sab += a * b;
     sbb += b * b;
   }
-  return (rho) => {
+  const f = (rho: number) => {
     const star = s0.map((v, j) => v - rho * s1[j]);
     const ssr = saa - 2 * rho * sab + rho * rho * sbb;
     // φ₁ = ρ + φ*₁, φⱼ = φ*ⱼ − φ*ⱼ₋₁ (1 < j < p), φ_p = −φ*_{p−1}.
@@ -80,6 +85,7 @@ function restrictedAr(x: Float64Array, p: number): (rho: number) => { phi: numbe
     phi[p - 1] = -star[p - 2];
     return { phi, sigma2: ssr / rows };
   };
+  return Object.assign(f, { s0, s1, saa, sab, sbb, rows });
 }
 
 /**
@@ -132,11 +138,45 @@ export function bnFilter(y: ArrayLike<number>, p: number, delta: number | 'auto'
   let chosen;
   if (delta === 'none') chosen = at(null);
   else if (delta === 'auto') {
-    chosen = at(0.01);
-    for (let k = 1; 0.01 + k * 0.0005 <= 1 + 1e-12; k++) {
-      const c = at(0.01 + k * 0.0005);
-      if (c.amplitudeToNoise > chosen.amplitudeToNoise) chosen = c;
+    // The cycle is cₜ = −(1 − ρ)⁻¹ tailᵀXₜ with tail = (ρ, −φ*₁, …, −φ*_{p−1}) (the sums φⱼ + … + φ_p
+    // telescope), and φ* = s₀ − ρs₁ is linear in ρ: tail = a + ρb with a = (0, −s₀), b = (1, s₁).
+    // Its variance over the sample is tailᵀΓtail with Γ the lag vectors' covariance (divisor k, as
+    // variance()), a quadratic in ρ; σ²(ρ) is one too. Each δ of the grid then costs O(1).
+    const R = restricted!;
+    const k = y.length - p;
+    const lag = (t: number, j: number) => y[t - j] - y[t - j - 1] - mean;
+    const means = new Float64Array(p);
+    for (let t = p; t < y.length; t++) for (let j = 0; j < p; j++) means[j] += lag(t, j) / k;
+    const a = [0, ...R.s0.map((v) => -v)];
+    const b = [1, ...R.s1];
+    let qaa = 0, qab = 0, qbb = 0;
+    for (let t = p; t < y.length; t++) {
+      let ua = 0, ub = 0;
+      for (let j = 0; j < p; j++) {
+        const v = lag(t, j) - means[j];
+        ua += a[j] * v;
+        ub += b[j] * v;
+      }
+      qaa += (ua * ua) / k;
+      qab += (ua * ub) / k;
+      qbb += (ub * ub) / k;
     }
+    const ratio = (d: number) => {
+      const rho = 1 - 1 / Math.sqrt(d);
+      const sigma2 = (R.saa - 2 * rho * R.sab + rho * rho * R.sbb) / R.rows;
+      return (qaa + 2 * rho * qab + rho * rho * qbb) / ((1 - rho) * (1 - rho) * sigma2);
+    };
+    let best = 0.01;
+    let bestRatio = ratio(best);
+    for (let g = 1; 0.01 + g * 0.0005 <= 1 + 1e-12; g++) {
+      const d = Math.round((0.01 + g * 0.0005) * 1e4) / 1e4;
+      const r = ratio(d);
+      if (r > bestRatio) {
+        best = d;
+        bestRatio = r;
+      }
+    }
+    chosen = at(best);
   } else chosen = at(delta);
   const trend = new Float64Array(y.length);
   for (let t = 0; t < y.length; t++) trend[t] = y[t] - chosen.cycle[t];

@@ -15,7 +15,8 @@
  *
  * Estimation: the variances are s²·xᵢ² and the AR(2) coefficients φ₂ = u₂, φ₁ = u₁(1 − φ₂) with
  * uᵢ = xᵢ/√(1 + xᵢ²) ∈ (−1, 1) (every stationary AR(2)); the negative log-likelihood is minimised
- * over x by BFGS (optimize.ts) from two starting points, keeping the better.
+ * over x by BFGS (optimize.ts) from a starting point, and from a second one when the first stops short
+ * of its convergence test or at a variance of zero, keeping the better.
  *
  * References: Clark, P. K. (1987), "The cyclical component of U.S. economic activity", Quarterly
  * Journal of Economics 102(4), 797–814. Watson, M. W. (1986), "Univariate detrending methods with
@@ -173,6 +174,8 @@ export function ucFit(y: ArrayLike<number>, trendModel: UcTrend): UcFit {
     { level: 0.5, slope: 0.05, cycle: 0.5, u1: 0.9, u2: -0.5 },
     { level: 0.3, slope: 0.01, cycle: 0.8, u1: 0.95, u2: -0.8 },
   ];
+  // The second start is tried only when the first stops short of its gradient test or on a
+  // variance at zero (where the likelihood is often flat and a second look pays).
   let best: ReturnType<typeof minimise> | null = null;
   for (const st of starts) {
     const x0 = localLinear
@@ -180,6 +183,8 @@ export function ucFit(y: ArrayLike<number>, trendModel: UcTrend): UcFit {
       : [Math.sqrt(st.level), Math.sqrt(st.cycle), unbounded(st.u1), unbounded(st.u2)];
     const r = minimise(objective, x0, { gradientTolerance: 1e-6, maxIterations: 300 });
     if (!best || r.f < best.f) best = r;
+    const variances = localLinear ? best.x.slice(0, 3) : best.x.slice(0, 2);
+    if (best.converged && variances.every((v) => v * v > 1e-6)) break;
   }
   const params = toParams(best!.x);
   const smooth = ucSmooth(y, params, kappa);
