@@ -6,6 +6,7 @@ import { idParam, sendFile, type RouteSpec } from '../lib/http.js';
 import { answerWithProgress } from '../lib/stream.js';
 import { studySchemas } from '../schemas/studies.js';
 import { studyExport } from '../services/exports.js';
+import { studyScript } from '../services/studies/script.js';
 import { realtimeAnalysis } from '../services/studies/realtime.js';
 import { compare, computeSpec, studyResult } from '../services/studies/results.js';
 import { createStudy, deleteStudy, duplicateStudy, getStudy, listStudies, updateStudy } from '../services/studies/studies.js';
@@ -116,6 +117,15 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       query: z.object({ format: z.enum(['csv', 'xlsx']).default('csv') }),
       raw: true,
       handler: async ({ params, query, res }) => sendFile(res, await studyExport(db, idParam(params.id, 'The study'), query.format)),
+    },
+    {
+      method: 'get',
+      path: '/studies/:id/script',
+      access: ACCESS.studiesRead,
+      summary: 'The study as a rerunnable Python script: fetches its vintage (token from TIDEGAUGE_TOKEN), recomputes with statsmodels or POST /decompose, prints the largest difference',
+      tags: ['studies'],
+      raw: true,
+      handler: async ({ params, res }) => sendFile(res, await studyScript(db, idParam(params.id, 'The study'), deps.config.publicOrigin)),
     },
   ];
 }

@@ -110,6 +110,7 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/studies/:id/result', path: '/api/v1/studies/999999/result', allow: STUDY_READERS },
   { route: 'POST /api/v1/studies/:id/realtime', path: '/api/v1/studies/999999/realtime', allow: STUDY_READERS },
   { route: 'GET /api/v1/studies/:id/export', path: '/api/v1/studies/999999/export', allow: STUDY_READERS },
+  { route: 'GET /api/v1/studies/:id/script', path: '/api/v1/studies/999999/script', allow: STUDY_READERS },
   // Boards: economists compose; everyone signed in reads shared boards.
   { route: 'GET /api/v1/boards', allow: SIGNED_IN },
   { route: 'POST /api/v1/boards', body: {}, allow: ['economist'] },

@@ -100,6 +100,9 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
                 <a className="btn-quiet" href={`${API}/studies/${study.id}/export?format=xlsx`} download>
                   XLSX
                 </a>
+                <a className="btn-quiet" href={`${API}/studies/${study.id}/script`} download data-testid="rerun-script" title="A Python script that fetches this study’s vintage with your API token (TIDEGAUGE_TOKEN), recomputes it with statsmodels or Tidegauge’s API and prints the largest difference from the saved numbers">
+                  Rerun as a script
+                </a>
               </>
             )}
             {study && allows(ACCESS.exhibitsDraft, me.data?.roles) && (
