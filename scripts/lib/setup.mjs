@@ -231,7 +231,8 @@ export async function startPrivateMariadb({ dataDir, port, quiet = false }) {
       '--character-set-server=utf8mb4',
       '--collation-server=utf8mb4_unicode_ci',
       '--max-connections=500',
-      '--innodb-buffer-pool-size=256M',
+      // TIDEGAUGE_DB_BUFFER_POOL sizes InnoDB's cache (the scale load test sizes it to its data).
+      `--innodb-buffer-pool-size=${process.env.TIDEGAUGE_DB_BUFFER_POOL || '256M'}`,
       '--innodb-flush-log-at-trx-commit=1',
       '--skip-name-resolve',
       '--max-allowed-packet=64M',

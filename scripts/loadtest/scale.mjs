@@ -16,6 +16,9 @@ const { default: autocannon } = await import('autocannon');
 const { default: knex } = await import('knex');
 const RELEASES = 20;
 const PERIODS = 120;
+// A database server holding an institution's Catalogue has its cache sized to it: 1.5 GiB here for
+// the 0.95 GiB of data (when this run starts the private MariaDB; a running one keeps its setting).
+process.env.TIDEGAUGE_DB_BUFFER_POOL ??= '1536M';
 const db = await provideDatabase('tidegauge_scale');
 const stateFile = path.join(root, '.data', 'loadtest-scale-state.json');
 const sql = knex({ client: 'mysql2', connection: db.url, pool: { min: 0, max: 2 } });
@@ -80,48 +83,51 @@ const scenarios = {
   'health (reference)': () => ({ path: '/api/v1/health' }),
   'catalogue search': () => ({ path: `/api/v1/series?q=SC_0${String(Math.floor(Math.random() * 1000)).padStart(3, '0')}` }),
   'any vintage of any series': () => ({ path: `/api/v1/series/${pick()}/vintages/${1 + Math.floor(Math.random() * RELEASES)}/observations` }),
+  // Any date from the first release (2020-04-01) to the end of 2025: the vintage in force then.
+  'as-of query': () => ({ path: `/api/v1/series/${pick()}/observations?asOf=${new Date(Date.UTC(2020, 3, 1) + Math.floor(Math.random() * 2100) * 86_400_000).toISOString().slice(0, 10)}` }),
 };
 // CPU time of the server process (with its worker threads) and of the private MariaDB, from
 // /proc: per request it does not depend on what else the machine runs, unlike the latencies.
 const dbPid = db.external ? null : Number(fs.readFileSync(path.join(root, '.data', 'mariadb', 'mariadb.pid'), 'utf8'));
-const cpuMs = () =>
-  [server.pid, dbPid].filter(Boolean).reduce((sum, pid) => {
-    try {
-      const f = fs.readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
-      return sum + ((Number(f[11]) + Number(f[12])) * 1000) / 100;
-    } catch {
-      return sum;
-    }
-  }, 0);
+const cpuOf = (pid) => {
+  try {
+    const f = fs.readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1].split(' ');
+    return ((Number(f[11]) + Number(f[12])) * 1000) / 100;
+  } catch {
+    return 0;
+  }
+};
+const cpuMs = () => ({ server: cpuOf(server.pid), db: dbPid ? cpuOf(dbPid) : 0 });
 const built = build ? `; built ${fresh ? 'in this run' : `on ${build.at.slice(0, 10)}`} by ${build.how === 'sql' ? 'SQL bulk inserts' : 'loads over HTTP'} in ${build.seconds.toFixed(0)} s` : '';
 const rows = [];
 console.log(`\nTidegauge scale load test — ${new Date().toISOString()} — ${os.cpus().length} cores, load average ${os.loadavg()[0].toFixed(1)}, node ${process.version}, ${DURATION} s per run`);
 console.log(`${ids.length} series × ${RELEASES} releases × ${PERIODS} periods: ${observations} observations stored, database ${(Number(size.bytes) / 2 ** 30).toFixed(2)} GiB${built}\n`);
 for (const c of [32, 128]) {
   for (const [name, setup] of Object.entries(scenarios)) {
-    let cpu0 = 0;
+    let cpu0 = cpuMs();
     const run = autocannon({ url: base, connections: c, duration: DURATION, headers: auth, timeout: 20, warmup: { connections: c, duration: 2 }, requests: [{ method: 'GET', setupRequest: (req) => ({ ...req, ...setup() }) }] });
     // The CPU count starts with the measured part, after the warm-up.
     const started = setTimeout(() => (cpu0 = cpuMs()), 2000);
     const r = await run;
     clearTimeout(started);
     const requests = r.requests.total || 1;
-    const row = { scenario: name, connections: c, rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, errors: r.errors + r.timeouts + r.non2xx, cpuMsPerRequest: (cpuMs() - cpu0) / requests };
+    const cpu1 = cpuMs();
+    const row = { scenario: name, connections: c, rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, errors: r.errors + r.timeouts + r.non2xx, serverCpuMs: (cpu1.server - cpu0.server) / requests, dbCpuMs: (cpu1.db - cpu0.db) / requests };
     rows.push(row);
     const ref = rows.find((x) => x.connections === c && x.scenario === 'health (reference)');
     const ratio = ref && ref !== row ? `  p99 ${(row.p99 / Math.max(1, ref.p99)).toFixed(1)}× the reference` : '';
-    console.log(`${name.padEnd(28)} ${String(c).padStart(4)}  ${row.rps.toFixed(0).padStart(7)} req/s  p50 ${String(row.p50).padStart(5)} ms  p99 ${String(row.p99).padStart(5)} ms  errors ${row.errors}  CPU ${row.cpuMsPerRequest.toFixed(2)} ms/request${ratio}`);
+    console.log(`${name.padEnd(28)} ${String(c).padStart(4)}  ${row.rps.toFixed(0).padStart(7)} req/s  p50 ${String(row.p50).padStart(5)} ms  p99 ${String(row.p99).padStart(5)} ms  errors ${row.errors}  CPU per request: server ${row.serverCpuMs.toFixed(2)} ms, database ${row.dbCpuMs.toFixed(2)} ms${ratio}`);
   }
 }
 const find = (s, c) => rows.find((r) => r.scenario === s && r.connections === c);
 const targets = [
   ['catalogue search at 32 connections: p99 < 50 ms', find('catalogue search', 32).p99 < 50],
   ['any vintage at 32 connections: p99 < 30 ms', find('any vintage of any series', 32).p99 < 30],
+  ['as-of query at 32 connections: p99 < 30 ms', find('as-of query', 32).p99 < 30],
   ['zero errors at 128 connections', rows.filter((r) => r.connections === 128).every((r) => r.errors === 0)],
 ];
 console.log('');
 for (const [what, ok] of targets) console.log(`${ok ? 'met   ' : 'MISSED'}  ${what}`);
-console.log('(the as-of query is measured once it exists: issue 12)');
 fs.writeFileSync(path.join(root, '.data', 'loadtest-scale.json'), JSON.stringify({ at: new Date().toISOString(), cores: os.cpus().length, observations, bytes: Number(size.bytes), build, rows, targets }, null, 2));
 await stop();
 process.exit(targets.every(([, ok]) => ok) ? 0 : 1);

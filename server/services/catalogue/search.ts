@@ -1,9 +1,10 @@
 /**
  * The Catalogue search's index (migration 0070, `series_grams`): the three-character pieces of a
- * search text that every matching series must contain, and the filter that narrows a query of
- * `series as s` to the series holding them before the LIKE itself is checked.
+ * search text that every matching series must contain, and the series that hold them: the only
+ * ones the LIKE itself then checks.
  */
 import type { Knex } from 'knex';
+import { fastQuery } from '../../db.js';
 
 /** At most this many pieces are looked up: each is one primary-key range, the LIKE does the rest. */
 const MAX_PIECES = 4;
@@ -27,11 +28,19 @@ export function searchPieces(q: string): string[] {
   return Array.from({ length: MAX_PIECES }, (_, k) => all[Math.round((k * (all.length - 1)) / (MAX_PIECES - 1))]);
 }
 
-/** Narrows `query` (over `series as s`) to the series whose code or title hold every piece of `q`. */
-export function whereHoldsPieces(db: Knex, query: Knex.QueryBuilder, q: string) {
+/** Beyond this many candidates the LIKE over every series costs no more than a list of ids. */
+const MAX_CANDIDATES = 2000;
+
+/**
+ * The ids of the series whose code or title hold every piece of `q` (a superset of those matching
+ * `%q%`), from the index alone; null when `q` has no piece or too many series hold them (check
+ * every series). A query of its own: joined into the listing, MariaDB would sort the series rows,
+ * notes (TEXT) and all, through a temporary table on disk.
+ */
+export async function seriesHoldingPieces(db: Knex, q: string): Promise<number[] | null> {
   const pieces = searchPieces(q);
-  if (pieces.length === 0) return;
-  const candidates = db('series_grams as g0').where('g0.gram', pieces[0]).select('g0.series_id');
-  pieces.slice(1).forEach((piece, k) => candidates.join(`series_grams as g${k + 1}`, (j) => j.on(`g${k + 1}.series_id`, 'g0.series_id').andOnVal(`g${k + 1}.gram`, piece)));
-  query.whereIn('s.id', candidates);
+  if (pieces.length === 0) return null;
+  const joins = pieces.slice(1).map((_, k) => `JOIN series_grams g${k + 1} ON g${k + 1}.series_id = g0.series_id AND g${k + 1}.gram = ?`);
+  const rows = await fastQuery<{ id: number }>(db, `SELECT g0.series_id AS id FROM series_grams g0 ${joins.join(' ')} WHERE g0.gram = ? LIMIT ${MAX_CANDIDATES + 1}`, [...pieces.slice(1), pieces[0]]);
+  return rows.length > MAX_CANDIDATES ? null : rows.map((r) => r.id);
 }

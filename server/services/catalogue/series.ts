@@ -5,7 +5,7 @@ import { conflict, notFound } from '../../lib/errors.js';
 import type { CreateSeriesBody, Series, SeriesListItem } from '../../schemas/catalogue.js';
 import { audit } from '../audit.js';
 import { dateOnly, iso, toSeries } from './rows.js';
-import { whereHoldsPieces } from './search.js';
+import { seriesHoldingPieces } from './search.js';
 import { transaction } from '../../lib/retry.js';
 
 export async function listSeries(db: Db, filter: { q?: string; frequency?: string; unit?: string } = {}): Promise<SeriesListItem[]> {
@@ -18,7 +18,9 @@ export async function listSeries(db: Db, filter: { q?: string; frequency?: strin
     .orderBy('s.code');
   if (filter.q) {
     // The index of three-character pieces finds the candidates; the LIKE decides, as it always did.
-    whereHoldsPieces(db, q, filter.q);
+    const candidates = await seriesHoldingPieces(db, filter.q);
+    if (candidates?.length === 0) return [];
+    if (candidates) q.whereIn('s.id', candidates);
     q.where((w) => w.whereILike('s.code', `%${filter.q}%`).orWhereILike('s.title', `%${filter.q}%`));
   }
   if (filter.frequency) q.where('s.frequency', filter.frequency);

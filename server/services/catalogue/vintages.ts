@@ -72,12 +72,15 @@ async function seriesIdOf(db: Db, ref: string): Promise<number> {
 
 /** A vintage's rows (the vintage chosen by `which`, SQL over `v2` with `?` for the series) in one round trip. */
 async function vintageRows(db: Db, seriesId: number, which: string, bindings: unknown[]) {
-  const rows = await fastQuery<VintageRows[number]>(
+  const chosen = `SELECT v2.id FROM vintages v2 WHERE v2.series_id = ? ${which} LIMIT 1`;
+  // An inner join reads the rows in the primary key's order: no sort.
+  let rows = await fastQuery<VintageRows[number]>(
     db,
-    `SELECT v.number, v.as_of, o.period, o.value FROM vintages v LEFT JOIN observations o ON o.vintage_id = v.id
-      WHERE v.id = (SELECT v2.id FROM vintages v2 WHERE v2.series_id = ? ${which} LIMIT 1) ORDER BY o.period`,
+    `SELECT v.number, v.as_of, o.period, o.value FROM vintages v JOIN observations o ON o.vintage_id = v.id WHERE v.id = (${chosen}) ORDER BY o.period`,
     [seriesId, ...bindings],
   );
+  // No rows: no such vintage, or (were one ever stored) a vintage without observations.
+  if (rows.length === 0) rows = await fastQuery(db, `SELECT v.number, v.as_of, NULL AS period, NULL AS value FROM vintages v WHERE v.id = (${chosen})`, [seriesId, ...bindings]);
   if (rows.length === 0) return null;
   const stored = rows[0].period === null ? [] : rows;
   return { number: rows[0].number, asOf: dateOnly(rows[0].as_of), periods: stored.map((r) => r.period!), values: stored.map((r) => (r.value === null ? null : Number(r.value))) };
