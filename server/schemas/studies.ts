@@ -2,6 +2,7 @@
 import { z } from 'zod';
 import { methodIdSchema, transformSchema, type Transform } from './decompose.js';
 import type { Frequency } from './frequency.js';
+import { isoDateSchema } from './catalogue.js';
 
 export const vintagePinSchema = z.union([z.number().int().positive(), z.literal('latest')], { error: 'The vintage is a number (1, 2, …) or "latest".' });
 
@@ -13,12 +14,14 @@ export function studySchemas(method: z.ZodType<string> = methodIdSchema) {
     transform: transformSchema,
     method,
     params: z.record(z.string(), z.unknown()),
+    /** A date pin: the vintage in force on that date (the latest released on or before it); null clears it. */
+    asOf: isoDateSchema.nullable(),
   };
   const text = {
     title: z.string({ error: 'Give the study a title.' }).trim().min(1, 'Give the study a title.').max(200, 'A title has at most 200 characters.'),
     notes: z.string().max(10_000, 'Notes have at most 10 000 characters.').optional(),
   };
-  const studySpecSchema = z.object({ ...fields, vintage: fields.vintage.default('latest'), transform: fields.transform.default('none'), params: fields.params.default({}) });
+  const studySpecSchema = z.object({ ...fields, asOf: fields.asOf.optional(), vintage: fields.vintage.default('latest'), transform: fields.transform.default('none'), params: fields.params.default({}) });
   const createStudySchema = studySpecSchema.extend(text);
   // No defaults in a change: a field left out keeps its saved value (a default would reset it).
   const updateStudySchema = z
@@ -52,6 +55,8 @@ export interface Study {
   seriesId: number;
   series: { code: string; title: string; frequency: 'A' | 'Q' | 'M'; unit: string };
   vintage: number | 'latest';
+  /** Set when the study pins a date rather than a number: it reads the vintage in force then. */
+  asOf: string | null;
   transform: 'none' | 'log' | 'log100';
   method: string;
   params: Record<string, unknown>;

@@ -196,7 +196,7 @@ export async function panelData(db: Db, panel: Panel): Promise<PanelData> {
   }
   const freshness = [];
   for (const s of studies) {
-    if (s.vintage !== 'latest' || panel.compareBy === 'vintages') continue;
+    if (s.vintage !== 'latest' || s.asOf || panel.compareBy === 'vintages') continue;
     const v = await db('vintages').where('series_id', s.seriesId).orderBy('number', 'desc').first();
     if (v) {
       freshness.push({

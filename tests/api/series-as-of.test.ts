@@ -77,6 +77,32 @@ describe('observations as of a date', () => {
   });
 });
 
+describe('a study pinned to a date', () => {
+  it('reads the vintage in force then, keeps the pin through other changes, and drops it for a number', async () => {
+    const economist = await signedIn(t, 'economist@demo.test');
+    const spec = { title: 'As of May 2020', seriesId: id, transform: 'none', method: 'hp', params: { lambda: 1600 } };
+    const created = await economist.post('/api/v1/studies').send({ ...spec, asOf: '2020-05-01' }).expect(201);
+    expect(created.body).toMatchObject({ vintage: 'latest', asOf: '2020-05-01' });
+    const sid = created.body.id;
+    const result = async () => (await economist.get(`/api/v1/studies/${sid}/result`).expect(200)).body;
+    expect(await result()).toMatchObject({ vintage: 2, asOf: '2020-04-15' });
+    expect((await result()).input).toHaveLength(9);
+    const renamed = await economist.patch(`/api/v1/studies/${sid}`).send({ title: 'Renamed' }).expect(200);
+    expect(renamed.body).toMatchObject({ title: 'Renamed', asOf: '2020-05-01', method: 'hp', params: { lambda: 1600 } });
+    expect((await result()).vintage).toBe(2);
+    const early = await economist.patch(`/api/v1/studies/${sid}`).send({ asOf: '2019-12-31' }).expect(404);
+    expect(early.body.error.message).toMatch(/on or before 2019-12-31/);
+    expect((await economist.get(`/api/v1/studies/${sid}`).expect(200)).body.asOf).toBe('2020-05-01');
+    const numbered = await economist.patch(`/api/v1/studies/${sid}`).send({ vintage: 1 }).expect(200);
+    expect(numbered.body).toMatchObject({ vintage: 1, asOf: null, title: 'Renamed' });
+    expect((await result()).vintage).toBe(1);
+    const dated = await economist.patch(`/api/v1/studies/${sid}`).send({ asOf: '2021-01-01' }).expect(200);
+    expect(dated.body).toMatchObject({ vintage: 'latest', asOf: '2021-01-01' });
+    expect((await result()).vintage).toBe(3);
+    await economist.patch(`/api/v1/studies/${sid}`).send({ asOf: '2021-02-30' }).expect(400);
+  });
+});
+
 describe('every series route takes the code', () => {
   it('reads the series, its vintages, observations, exports and revisions by code as by id', async () => {
     const paths = ['', '/vintages', '/vintages/2', '/vintages/latest/observations', '/revisions?from=1&to=3', '/revisions/triangle'];

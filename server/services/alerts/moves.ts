@@ -44,7 +44,7 @@ const studyIdsOf = (text: string): number[] => {
  */
 export async function affectedPeople(db: Db, seriesIds: number[]): Promise<Recipient[]> {
   if (!seriesIds.length) return [];
-  const onSeries: { id: number; owner_id: number; vintage_number: number | null }[] = await db('studies').whereIn('series_id', seriesIds).select('id', 'owner_id', 'vintage_number');
+  const onSeries: { id: number; owner_id: number; vintage_number: number | null; vintage_as_of: Date | null }[] = await db('studies').whereIn('series_id', seriesIds).select('id', 'owner_id', 'vintage_number', 'vintage_as_of');
   const ids = new Set(onSeries.map((s) => s.id));
   const byPerson = new Map<number, Map<number, Set<'study' | 'board' | 'exhibit'>>>();
   const add = (userId: number, studyId: number, why: 'study' | 'board' | 'exhibit') => {
@@ -53,7 +53,7 @@ export async function affectedPeople(db: Db, seriesIds: number[]): Promise<Recip
     if (!m.has(studyId)) m.set(studyId, new Set());
     m.get(studyId)!.add(why);
   };
-  for (const s of onSeries) if (s.vintage_number === null) add(s.owner_id, s.id, 'study');
+  for (const s of onSeries) if (s.vintage_number === null && s.vintage_as_of === null) add(s.owner_id, s.id, 'study');
   if (!ids.size) return [];
   const panels: { id: number; owner_id: number; study_ids: string }[] = await db('board_panels as p').join('boards as b', 'b.id', 'p.board_id').select('p.id', 'b.owner_id', 'p.study_ids');
   const panelStudies = new Map<number, number[]>();

@@ -52,7 +52,7 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
   if (row.study_id) {
     const s = await getStudy(db, row.study_id);
     // An update of an exhibit whose study pins an older vintage draws on the newer one it was prepared for.
-    const r = await computeSpec(db, row.vintage_pin ? { ...s, vintage: row.vintage_pin } : s);
+    const r = await computeSpec(db, row.vintage_pin ? { ...s, vintage: row.vintage_pin, asOf: null } : s);
     const studies = [{ id: s.id, title: s.title, method: r.method, params: r.params, transform: r.transform, vintage: r.vintage, asOf: r.asOf, vintageChecksum: await vintageChecksum(db, r.series.id, r.vintage), methodLine: r.methodLine }];
     return single('study', r, studies, [{ id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source }]);
   }

@@ -5,6 +5,7 @@ import type { Db } from '../../db.js';
 import type { Frequency } from '../../schemas/frequency.js';
 import type { StudySpec } from '../../schemas/studies.js';
 import { readSeriesValues } from '../catalogue/stored-values.js';
+import { vintageInForce } from '../catalogue/vintages.js';
 
 /**
  * Runs a specification on its stored series: the data and the decomposition (AnalysisError → 400).
@@ -12,7 +13,9 @@ import { readSeriesValues } from '../catalogue/stored-values.js';
  * (a comparison of series of different frequencies on a common one).
  */
 export async function runSpec(db: Db, spec: StudySpec, opts: { frequency?: Frequency } = {}) {
-  const stored = await readSeriesValues(db, spec.seriesId, spec.vintage);
+  // A date pin reads the vintage in force on that date (404 when none was released by then).
+  const vintage = spec.asOf ? (await vintageInForce(db, spec.seriesId, spec.asOf)).number : spec.vintage;
+  const stored = await readSeriesValues(db, spec.seriesId, vintage);
   const to = opts.frequency ?? stored.series.frequency;
   const data = to === stored.series.frequency ? stored : { ...stored, ...aggregateByAverage(stored.periods, stored.values, stored.series.frequency, to) };
   const start = to === stored.series.frequency ? (data.start ?? undefined) : data.periods[0];

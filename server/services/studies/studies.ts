@@ -8,6 +8,7 @@ import type { PublicUser } from '../../schemas/people.js';
 import type { CreateStudyBody, Study, StudySpec } from '../../schemas/studies.js';
 import { audit } from '../audit.js';
 import { runSpec } from './spec.js';
+import { dateOnly } from '../catalogue/rows.js';
 
 function toStudy(r: Record<string, any>): Study {
   return {
@@ -17,6 +18,7 @@ function toStudy(r: Record<string, any>): Study {
     seriesId: r.series_id,
     series: { code: r.code, title: r.series_title, frequency: r.frequency, unit: r.unit },
     vintage: r.vintage_number ?? 'latest',
+    asOf: r.vintage_as_of ? dateOnly(r.vintage_as_of) : null,
     transform: r.transform,
     method: r.method,
     params: JSON.parse(r.params),
@@ -53,7 +55,8 @@ export async function createStudy(db: Db, owner: PublicUser, body: CreateStudyBo
   const [id] = await db('studies').insert({
     owner_id: owner.id,
     series_id: body.seriesId,
-    vintage_number: body.vintage === 'latest' ? null : body.vintage,
+    vintage_number: body.vintage === 'latest' || body.asOf ? null : body.vintage,
+    vintage_as_of: body.asOf ?? null,
     transform: body.transform,
     method: body.method,
     params: JSON.stringify(params),
@@ -74,6 +77,8 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Pa
   const spec: StudySpec = {
     seriesId: body.seriesId ?? study.seriesId,
     vintage: body.vintage ?? study.vintage,
+    // A date pin stays until a date, null or a vintage is sent.
+    asOf: body.asOf !== undefined ? body.asOf : body.vintage !== undefined ? null : study.asOf,
     transform: body.transform ?? study.transform,
     method: body.method ?? study.method,
     params: body.params ?? (body.method && body.method !== study.method ? {} : study.params),
@@ -83,7 +88,8 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Pa
     .where('id', id)
     .update({
       series_id: spec.seriesId,
-      vintage_number: spec.vintage === 'latest' ? null : spec.vintage,
+      vintage_number: spec.vintage === 'latest' || spec.asOf ? null : spec.vintage,
+      vintage_as_of: spec.asOf ?? null,
       transform: spec.transform,
       method: spec.method,
       params: JSON.stringify(params),
@@ -96,7 +102,7 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Pa
 
 export async function duplicateStudy(db: Db, user: PublicUser, id: number) {
   const s = await getStudy(db, id);
-  return createStudy(db, user, { title: `${s.title} (copy)`.slice(0, 200), notes: s.notes ?? undefined, seriesId: s.seriesId, vintage: s.vintage, transform: s.transform, method: s.method, params: s.params });
+  return createStudy(db, user, { title: `${s.title} (copy)`.slice(0, 200), notes: s.notes ?? undefined, seriesId: s.seriesId, vintage: s.vintage, asOf: s.asOf, transform: s.transform, method: s.method, params: s.params });
 }
 
 export async function deleteStudy(db: Db, user: PublicUser, id: number, ip?: string) {
