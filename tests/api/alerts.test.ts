@@ -143,10 +143,31 @@ describe('alerts after a load', () => {
     expect(mailsTo('quiet@alerts.test')).toHaveLength(0);
   });
 
+  it('a history load of several releases sends one mail, comparing the vintage before the first release with the last', async () => {
+    t.mail.clear();
+    const a3 = [...v2, 113.5];
+    const a4 = [...a3.slice(0, -1), 113.9];
+    const a5 = [...a4, 114.6];
+    const rows = [['release date', '2025-08-01', '2025-09-01'], ['period', '2025Q2', '2025Q3'], ...a5.map((v, i) => [quarter(i), i < a4.length ? a4[i] : '', v])];
+    const file = Buffer.from(rows.map((r) => r.join(',')).join('\n') + '\n');
+    const res = await steward.post('/api/v1/series/T_ALERT_A/history').attach('file', file, 'history.csv').expect(201);
+    expect(res.body.vintages.map((v: { number: number }) => v.number)).toEqual([4, 5]);
+    await settle();
+    const toFollower = mailsTo('follower@alerts.test');
+    expect(toFollower).toHaveLength(1);
+    expect(toFollower[0].subject).toBe('New data: T_ALERT_A (vintages 4, 5)');
+    const text = toFollower[0].text.replace(/\s+/g, ' ');
+    expect(text).toMatch(/through a history load of history\.csv/);
+    expect(text).toMatch(/on vintage 3, now [+−][0-9.]+ in 2012-Q3 on vintage 5/);
+    expect(mailsTo('board@alerts.test')).toHaveLength(1);
+    expect(t.mail.messages()).toHaveLength(2);
+  });
+
   it('a dry run and a refused load send nothing', async () => {
     t.mail.clear();
-    await steward.post(`/api/v1/series/${seriesA}/vintages?dryRun=1`).attach('file', csv([...v2, 113.5, 114]), 'dry.csv').expect(200);
-    await steward.post(`/api/v1/series/${seriesA}/vintages`).attach('file', csv([...v2, 113.5]), 'same.csv').expect(409);
+    const latest = (await steward.get(`/api/v1/series/${seriesA}/vintages/latest/observations`).expect(200)).body.values as number[];
+    await steward.post(`/api/v1/series/${seriesA}/vintages?dryRun=1`).attach('file', csv([...latest, 115]), 'dry.csv').expect(200);
+    await steward.post(`/api/v1/series/${seriesA}/vintages`).attach('file', csv(latest), 'same.csv').expect(409);
     await settle();
     expect(t.mail.messages()).toHaveLength(0);
   });
