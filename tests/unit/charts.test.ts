@@ -8,7 +8,7 @@
 import { SaxesParser } from 'saxes';
 import { describe, expect, it } from 'vitest';
 import { chartSvg, withChart } from '../../server/lib/figure-svg.js';
-import { yearStep, yearTicks, zoom } from '../../server/schemas/charts/axes.js';
+import { LATEST_ROOM, yearStep, yearTicks, zoom } from '../../server/schemas/charts/axes.js';
 import { exhibitFigure } from '../../server/schemas/charts/figure.js';
 import { compareChart, cycleChart, revisionBars, trendChart, vintagesChart } from '../../server/schemas/charts/options.js';
 import { COLORS, vintageColor } from '../../server/schemas/charts/palette.js';
@@ -148,9 +148,16 @@ describe('time axes with ticks on year boundaries', () => {
 });
 
 describe('publication details', () => {
-  it('marks and labels the latest observation', () => {
+  it('marks and labels the latest observation right of the plot, clear of the data and inside the picture', () => {
     for (const option of [cycleChart({ periods, cycle }), compareChart({ lines: [{ name: 'a', periods, values: cycle }] })]) {
-      expect(chartSvg(option, 1000, 600)).toContain(`2024-Q4: ${cycle[99].toFixed(2)}`);
+      const svg = chartSvg(option, 1000, 600);
+      const at = (text: string) => Number(svg.match(new RegExp(`translate\\(([\\d.]+) [\\d.-]+\\)"[^>]*>${text}</text>`))?.[1]);
+      const x = at('2024-Q4');
+      expect(at(cycle[99].toFixed(2))).toBe(x);
+      // The plot ends LATEST_ROOM px from the right; the label starts past the last period's
+      // position and its seven characters (about 6 px each at 11 px) end inside the picture.
+      expect(x).toBeGreaterThan(1000 - LATEST_ROOM - 10);
+      expect(x + 7 * 6).toBeLessThan(1000);
     }
   });
 

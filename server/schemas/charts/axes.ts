@@ -166,6 +166,9 @@ export function bandLayer(n: number, bands: (PeriodBand | undefined)[], bars: bo
 }
 
 /** A marker and label on the latest observation ("2024-Q4: 1.2"), for the main line or bars. */
+/** Room on the right of the plot for the latest observation's label (two short lines). */
+export const LATEST_ROOM = 64;
+
 export function latestMark(periods: readonly string[], values: readonly Num[], color: string) {
   const i = lastIndex(values);
   if (i < 0) return undefined;
@@ -173,9 +176,10 @@ export function latestMark(periods: readonly string[], values: readonly Num[], c
     silent: true,
     symbol: 'circle',
     symbolSize: 7,
-    itemStyle: { color, borderColor: '#FFFFFF', borderWidth: 1.5 },
-    // Left of the point, with a paper-coloured halo: clear of the band's label above the plot, readable over lines and bars.
-    label: { show: true, position: 'left', distance: 6, color: COLORS.ink, textBorderColor: COLORS.paper, textBorderWidth: 3, fontFamily: FONT, fontSize: 11, fontWeight: 600, formatter: `${periods[i]}: ${fmt(values[i] as number)}` },
+    itemStyle: { color, borderColor: '#FFFFFF', borderWidth: 1 },
+    // Right of the point, in the room the chart keeps beyond the last period (LATEST_ROOM): no
+    // bar, line or turning-point mark lies there, so the label never covers the data.
+    label: { show: true, position: 'right', distance: 5, align: 'left', color: COLORS.ink, lineHeight: 13, fontFamily: FONT, fontSize: 11, fontWeight: 600, formatter: `${periods[i]}\n${fmt(values[i] as number)}` },
     data: [{ coord: [i, values[i]], name: 'latest' }],
   };
 }

@@ -4,7 +4,7 @@
  * Options are plain objects; nothing here needs a browser.
  */
 import { alignByPeriod } from '../align.js';
-import { bandLayer, endOfSampleBand, latestMark, lineSeries, timeAxis, valueAxis, zoom, type Num, type PeriodBand } from './axes.js';
+import { bandLayer, endOfSampleBand, LATEST_ROOM, latestMark, lineSeries, timeAxis, valueAxis, zoom, type Num, type PeriodBand } from './axes.js';
 import { axisFmt, COLORS, COMPARE_COLORS, fmt, FONT, vintageColor } from './palette.js';
 
 export type { Num, PeriodBand };
@@ -14,12 +14,15 @@ export function baseOption() {
     backgroundColor: 'transparent',
     textStyle: { fontFamily: FONT, color: COLORS.ink },
     animationDuration: 250,
-    grid: { left: 56, right: 24, top: 44, bottom: 48, containLabel: false },
+    grid: { left: 56, right: 24, top: 52, bottom: 48, containLabel: false },
     tooltip: { trigger: 'axis', backgroundColor: '#FFFEFB', borderColor: COLORS.hairline, textStyle: { color: COLORS.ink, fontFamily: FONT }, valueFormatter: (v: unknown) => (typeof v === 'number' ? fmt(v) : String(v ?? '—')) },
     // One row that pages on narrow charts, so it never runs into the plot or the band's label.
-    legend: { type: 'scroll', top: 0, left: 56, right: 8, align: 'left', icon: 'roundRect', itemWidth: 14, itemHeight: 4, textStyle: { color: COLORS.inkSoft }, pageIconColor: COLORS.trend, pageIconInactiveColor: COLORS.hairline, pageTextStyle: { color: COLORS.inkSoft } },
+    legend: { type: 'scroll', top: 0, left: 56, right: 8, align: 'left', icon: 'roundRect', itemWidth: 14, itemHeight: 4, textStyle: { color: COLORS.inkSoft, lineHeight: 18 }, pageIconColor: COLORS.trend, pageIconInactiveColor: COLORS.hairline, pageTextStyle: { color: COLORS.inkSoft } },
   };
 }
+
+/** The base grid with room on the right for the latest observation's label. */
+const latestGrid = () => ({ ...baseOption().grid, right: LATEST_ROOM });
 
 /** Periods a method added past the last observation (forecasts), shaded and labelled with the method's word. */
 export interface ExtensionMark {
@@ -78,6 +81,7 @@ export function levelChart(opts: { periods: string[]; values: Num[]; name?: stri
   const t = timeChart(opts.periods, false, [], valueAxis(opts.unit));
   return {
     ...baseOption(),
+    grid: latestGrid(),
     legend: { show: false },
     xAxis: t.xAxis,
     yAxis: t.yAxis,
@@ -96,6 +100,7 @@ export function trendChart(opts: { periods: string[]; input: Num[]; trend: Num[]
   const t = timeChart(opts.periods, false, bandsOf(opts.periods, trend, opts), valueAxis(opts.unit));
   return {
     ...baseOption(),
+    grid: latestGrid(),
     xAxis: t.xAxis,
     yAxis: t.yAxis,
     dataZoom: zoom(opts.periods.length),
@@ -129,6 +134,7 @@ export function cycleChart(opts: { periods: string[]; cycle: Num[]; unit?: strin
   const t = timeChart(opts.periods, true, bandsOf(opts.periods, opts.cycle, opts), valueAxis(opts.unit, { scale: false }));
   return {
     ...baseOption(),
+    grid: latestGrid(),
     legend: { show: false },
     xAxis: t.xAxis,
     yAxis: t.yAxis,
@@ -223,6 +229,7 @@ export function compareChart(opts: { lines: NamedLine[]; unit?: string; zeroLine
   const t = timeChart(periods, false, bandsOf(periods, series[0]?.values ?? [], opts), valueAxis(opts.unit, { scale: !opts.zeroLine }));
   return {
     ...baseOption(),
+    grid: latestGrid(),
     xAxis: t.xAxis,
     yAxis: t.yAxis,
     dataZoom: zoom(periods.length),
