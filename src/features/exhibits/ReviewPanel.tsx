@@ -36,8 +36,8 @@ export function ReviewPanel({ exhibit }: { exhibit: Exhibit }) {
   const d = diff.data.diff;
   return (
     <section className="space-y-3" aria-label="What changed" data-testid="review-diff">
-      <h2 className="font-heading text-lg font-bold">{d.from ? `What changed since revision ${d.from}` : 'First submission'}</h2>
-      {!d.from && <p className="text-sm text-ink-soft">This is the first revision submitted, so there is nothing earlier to compare with.</p>}
+      {(d.from || !diff.data.published) && <h2 className="font-heading text-lg font-bold">{d.from ? `What changed since revision ${d.from}` : 'First submission'}</h2>}
+      {!d.from && !diff.data.published && <p className="text-sm text-ink-soft">This is the first revision submitted, so there is nothing earlier to compare with.</p>}
       {d.from && <Changes d={d} />}
       {diff.data.previous && (
         <div className="grid gap-3 xl:grid-cols-2">

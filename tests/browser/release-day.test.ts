@@ -1,0 +1,106 @@
+/**
+ * Release day end to end (issue 15): a steward registers a feed on the local fake SDMX source and
+ * runs it; the source publishes a new release and the next run stores a new vintage, which the
+ * series page shows; the release alert is in the Mailbox; an economist prepares an update of the
+ * published exhibit, an editor reviews it against the published one and publishes it; the old
+ * exhibit says it is superseded and points to its successor. Every request stays on 127.0.0.1.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { startFakeSdmxSource, type FakeSdmxSource } from '../../server/sdmx/fake-source.js';
+import type { TestServer } from '../helpers/app.js';
+import { openSuite, signInAs, signOut, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { signedIn } from '../helpers/session.js';
+
+let t: TestServer;
+let browser: BrowserSession;
+let suite: Suite | undefined;
+let source: FakeSdmxSource;
+let seriesId: number;
+let exhibitId: number;
+
+beforeAll(async () => {
+  source = await startFakeSdmxSource(0);
+  ({ t, browser } = suite = await openSuite());
+  const steward = await signedIn(t, 'steward@demo.test');
+  seriesId = (await steward.post('/api/v1/series').send({ code: 'FK_GDP', title: 'Estuary real GDP from the statistics office (invented)', frequency: 'Q', unit: 'EST$ million', seasonalAdjustment: 'sa', source: 'Estuary statistics office (invented)' }).expect(201)).body.id;
+}, 120_000);
+afterAll(async () => {
+  await suite?.close();
+  await source?.close();
+});
+
+describe('release day', () => {
+  it('a feed run brings a new vintage, the alert and an exhibit update that supersedes the published one', async () => {
+    const { page } = browser;
+    // The steward registers the feed and runs it: the first release becomes vintage 1.
+    const steward = await signedIn(t, 'steward@demo.test');
+    const feed = (await steward.post('/api/v1/feeds').send({ name: 'Estuary national accounts', url: `${source.url}/data/EST_STATS,NA_MAIN,1.0/Q.EST.GDP_VOL`, mappings: [{ key: 'Q.EST.GDP_VOL', series: 'FK_GDP' }] }).expect(201)).body;
+    expect((await steward.post(`/api/v1/feeds/${feed.id}/run`).expect(200)).body.outcome).toBe('stored');
+
+    // An economist follows the series; an exhibit drawn from the study is published.
+    const economist = await signedIn(t, 'economist@demo.test');
+    const editor = await signedIn(t, 'editor@demo.test');
+    const study = (await economist.post('/api/v1/studies').send({ title: 'Gap from the office’s GDP', seriesId, vintage: 'latest', transform: 'log100', method: 'hp', params: { lambda: 1600 } }).expect(201)).body;
+    exhibitId = (await economist.post('/api/v1/exhibits').send({ studyId: study.id, title: 'The Estuary output gap', subtitle: 'Percent of trend' }).expect(201)).body.id;
+    await economist.post(`/api/v1/exhibits/${exhibitId}/transitions`).send({ to: 'in_review' }).expect(200);
+    await editor.post(`/api/v1/exhibits/${exhibitId}/transitions`).send({ to: 'approved' }).expect(200);
+    await editor.post(`/api/v1/exhibits/${exhibitId}/transitions`).send({ to: 'published' }).expect(200);
+
+    // The office publishes; the next run stores vintage 2, which the series page shows.
+    source.publish();
+    expect((await steward.post(`/api/v1/feeds/${feed.id}/run`).expect(200)).body.outcome).toBe('stored');
+    await signInAs(page, t.url, 'steward@demo.test');
+    await page.goto(`${t.url}/catalogue/${seriesId}`);
+    await expect.poll(() => page.getByTestId('vintage-stamp').innerText()).toMatch(/vintage 2$/);
+    await signOut(page);
+
+    // The alert to the economist is in the Mailbox.
+    await (t.app.locals.background as { idle(): Promise<void> }).idle();
+    await signInAs(page, t.url, 'admin@demo.test');
+    await page.goto(`${t.url}/people/mailbox`);
+    const alert = page.getByTestId('mailbox').getByRole('button', { name: /New data: FK_GDP \(vintage 2\).*economist@demo\.test/ });
+    await alert.first().click();
+    const body = await page.getByTestId('mailbox').locator('pre').first().innerText();
+    expect(body).toContain('“Gap from the office’s GDP”');
+    expect(body).toMatch(/through the feed “Estuary national accounts”/);
+    expect(body).toMatch(/Last gap estimate: [+−][0-9.]+ in \d{4}-Q\d on vintage 1, now [+−][0-9.]+ in \d{4}-Q\d on vintage 2/);
+    await signOut(page);
+
+    // The economist prepares an update of the published exhibit and submits it.
+    await signInAs(page, t.url, 'economist@demo.test');
+    await page.goto(`${t.url}/exhibits/${exhibitId}`);
+    await page.getByRole('button', { name: 'Prepare an update' }).click();
+    await page.waitForURL((u) => /\/exhibits\/\d+$/.test(u.pathname) && !u.pathname.endsWith(`/${exhibitId}`));
+    const updateUrl = page.url();
+    await expect.poll(() => page.getByTestId('update-of-note').innerText()).toMatch(/An update of The Estuary output gap \(exhibit \d+, published\)/);
+    await page.getByTestId('exhibit-chart').locator('canvas').first().waitFor();
+    await page.getByRole('button', { name: 'Submit for review' }).click();
+    await expect.poll(() => page.getByTestId('exhibit-state').innerText()).toBe('in review');
+    await signOut(page);
+
+    // The editor sees it on the Review desk as an update, compares it with the published exhibit, and publishes it.
+    await signInAs(page, t.url, 'editor@demo.test');
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Review desk' }).click();
+    const row = page.getByTestId('review-queue').getByRole('row', { name: new RegExp(`update of exhibit ${exhibitId}`) });
+    await row.getByRole('link', { name: 'The Estuary output gap' }).click();
+    const against = page.getByTestId('update-diff');
+    await against.waitFor();
+    expect(await against.innerText()).toMatch(/vintage of study \d+: 1 → 2/);
+    await page.getByRole('button', { name: 'Approve' }).click();
+    await expect.poll(() => page.getByTestId('exhibit-state').innerText()).toBe('approved');
+    await page.getByRole('button', { name: 'Publish' }).click();
+    await expect.poll(() => page.getByTestId('exhibit-state').innerText()).toBe('published');
+    await signOut(page);
+
+    // A reader opens the old exhibit: superseded, pointing to its successor, which points back.
+    await signInAs(page, t.url, 'viewer@demo.test');
+    await page.goto(`${t.url}/exhibits/${exhibitId}`);
+    await expect.poll(() => page.getByTestId('exhibit-state').innerText()).toBe('superseded');
+    const note = page.getByTestId('superseded-note');
+    expect(await note.innerText()).toMatch(/Superseded .*by its update: The Estuary output gap \(exhibit \d+\)/);
+    await note.getByRole('link').click();
+    await page.waitForURL(updateUrl);
+    await expect.poll(() => page.getByTestId('update-of-note').innerText()).toMatch(new RegExp(`exhibit ${exhibitId}, superseded`));
+    expect(source.requests().every((r) => r.url.startsWith('/'))).toBe(true);
+  }, 240_000);
+});
