@@ -55,7 +55,7 @@ export const PAGES = [
   { path: '/catalogue', access: 'signedIn', api: ['GET /api/v1/series'], nav: 'Catalogue' },
   { path: '/catalogue/new', access: ACCESS.catalogueWrite, api: ['POST /api/v1/series'] },
   { path: '/catalogue/loads', access: ACCESS.catalogueWrite, api: ['POST /api/v1/loads', 'GET /api/v1/loads'] },
-  { path: '/catalogue/:id', access: 'signedIn', api: ['GET /api/v1/series/:id', 'GET /api/v1/series/:id/vintages', 'GET /api/v1/series/:id/vintages/:number/observations', 'GET /api/v1/series/:id/revisions', 'GET /api/v1/series/:id/revisions/triangle'] },
+  { path: '/catalogue/:id', access: 'signedIn', api: ['GET /api/v1/series/:id', 'GET /api/v1/series/:id/vintages', 'GET /api/v1/series/:id/vintages/:number/observations', 'GET /api/v1/series/:id/revisions', 'GET /api/v1/series/:id/revisions/triangle', 'GET /api/v1/series/:series/history'] },
   { path: '/catalogue/:id/edit', access: ACCESS.catalogueWrite, api: ['PATCH /api/v1/series/:id', 'GET /api/v1/series/:id'] },
   { path: '/studies', access: ACCESS.studiesRead, api: ['GET /api/v1/studies', 'GET /api/v1/methods'], nav: 'Studies' },
   { path: '/studies/new', access: ACCESS.studiesWrite, api: ['POST /api/v1/studies', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'GET /api/v1/methods', 'GET /api/v1/series', 'GET /api/v1/chronologies'] },

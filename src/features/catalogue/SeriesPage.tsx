@@ -12,10 +12,11 @@ import { API } from '@/lib/api';
 import { useObservations, useSeries, useVintages } from './api';
 import { InventedBadge } from './CataloguePage';
 import { LoadPanel } from './LoadPanel';
+import { HistoryPanel } from './HistoryPanel';
 import { RevisionsPanel } from './RevisionsPanel';
 import { ACCESS, allows } from '@schemas/access';
 
-type Tab = 'overview' | 'vintages' | 'revisions' | 'load';
+type Tab = 'overview' | 'vintages' | 'revisions' | 'load' | 'history';
 
 export function SeriesPage() {
   const id = Number(useParams().id);
@@ -32,7 +33,7 @@ export function SeriesPage() {
     ['overview', 'Latest vintage'],
     ['vintages', `Vintages (${s.vintageCount})`],
     ['revisions', 'Revisions'],
-    ...(canLoad ? ([['load', 'Load a release']] as [Tab, string][]) : []),
+    ...(canLoad ? ([['load', 'Load a release'], ['history', 'Load a history']] as [Tab, string][]) : []),
   ];
   return (
     <>
@@ -68,6 +69,7 @@ export function SeriesPage() {
         {tab === 'vintages' && <VintageHistory id={id} code={s.code} />}
         {tab === 'revisions' && <RevisionsPanel id={id} unit={s.unit} />}
         {tab === 'load' && canLoad && <LoadPanel series={s} onStored={() => setTab('revisions')} />}
+        {tab === 'history' && canLoad && <HistoryPanel series={s} onStored={() => series.refetch()} />}
       </Tabs>
     </>
   );
@@ -107,7 +109,17 @@ function VintageHistory({ id, code }: { id: number; code: string }) {
   if (vintages.error) return <ErrorNote error={vintages.error} />;
   return (
     <>
-      <p className="mb-3 max-w-3xl text-sm text-ink-soft">Vintages never change: a correction is loaded as a new vintage. Each is kept with its checksum.</p>
+      <p className="mb-3 max-w-3xl text-sm text-ink-soft">
+        Vintages never change: a correction is loaded as a new vintage. Each is kept with its checksum. The whole release table, one column per vintage:{' '}
+        <a className="text-trend underline" href={`${API}/series/${id}/history?format=csv`} download>
+          CSV
+        </a>{' '}
+        or{' '}
+        <a className="text-trend underline" href={`${API}/series/${id}/history?format=xlsx`} download>
+          XLSX
+        </a>
+        .
+      </p>
       <DataTable
         data={vintages.data}
         testId="vintage-table"

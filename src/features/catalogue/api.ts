@@ -2,6 +2,9 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
 import type { CreateSeriesBody, FileProblem, LoadAnswer, LoadPreview, LoadSummary, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage } from '@schemas/catalogue';
 import { useUpload } from '@/lib/upload';
+import type { HistoryAnswer, HistoryPreview, HistoryVintage } from '@schemas/history';
+
+export type { HistoryAnswer, HistoryPreview, HistoryVintage };
 
 export type { LoadAnswer, LoadPreview, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage };
 export type Problem = FileProblem;
@@ -49,6 +52,19 @@ export function useLoad(opts: { stream?: boolean } = {}) {
     stream: opts.stream,
     onSuccess: (answer) => {
       if (answer.vintage || answer.load) {
+        qc.invalidateQueries({ queryKey: ['series'] });
+        qc.invalidateQueries({ queryKey: ['loads'] });
+      }
+    },
+  });
+}
+
+/** A history load: `mutate({ path, form })` with path /series/:id/history (and ?dryRun=1 to preview). */
+export function useHistoryLoad() {
+  const qc = useQueryClient();
+  return useUpload<HistoryAnswer>({
+    onSuccess: (answer) => {
+      if (answer.loadId) {
         qc.invalidateQueries({ queryKey: ['series'] });
         qc.invalidateQueries({ queryKey: ['loads'] });
       }
