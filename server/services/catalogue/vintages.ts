@@ -61,7 +61,7 @@ export async function observationsOf(db: Db | Knex.Transaction, vintageId: numbe
   return { periods: rows.map((r) => r.period), values: rows.map((r) => (r.value === null ? null : Number(r.value))) };
 }
 
-type VintageRows = { number: number; as_of: Date; period: string | null; value: number | null }[];
+type VintageRows = { number: number; as_of: Date | string; period: string | null; value: number | null }[];
 
 /** A series' id without a query when the reference is one (resolveSeriesRef reads it otherwise). */
 async function seriesIdOf(db: Db, ref: string): Promise<number> {
@@ -73,10 +73,11 @@ async function seriesIdOf(db: Db, ref: string): Promise<number> {
 /** A vintage's rows (the vintage chosen by `which`, SQL over `v2` with `?` for the series) in one round trip. */
 async function vintageRows(db: Db, seriesId: number, which: string, bindings: unknown[]) {
   const chosen = `SELECT v2.id FROM vintages v2 WHERE v2.series_id = ? ${which} LIMIT 1`;
-  // An inner join reads the rows in the primary key's order: no sort.
+  // An inner join reads the rows in the primary key's order: no sort. The date comes as text:
+  // no Date built for each of the rows.
   let rows = await fastQuery<VintageRows[number]>(
     db,
-    `SELECT v.number, v.as_of, o.period, o.value FROM vintages v JOIN observations o ON o.vintage_id = v.id WHERE v.id = (${chosen}) ORDER BY o.period`,
+    `SELECT v.number, DATE_FORMAT(v.as_of, '%Y-%m-%d') AS as_of, o.period, o.value FROM vintages v JOIN observations o ON o.vintage_id = v.id WHERE v.id = (${chosen}) ORDER BY o.period`,
     [seriesId, ...bindings],
   );
   // No rows: no such vintage, or (were one ever stored) a vintage without observations.
