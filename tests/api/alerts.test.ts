@@ -163,6 +163,25 @@ describe('alerts after a load', () => {
     expect(t.mail.messages()).toHaveLength(2);
   });
 
+  it('studies whose method is heavy (unobserved components) are computed on the worker threads, with the numbers POST /decompose gives', async () => {
+    const uc = (await boardOwner.post('/api/v1/studies').send({ title: 'UC gap of A', seriesId: seriesA, vintage: 'latest', transform: 'log100', method: 'uc', params: { trend: 'local-linear' } }).expect(201)).body.id as number;
+    t.mail.clear();
+    const before = (await steward.get(`/api/v1/series/${seriesA}/vintages/latest/observations`).expect(200)).body;
+    const after = [...before.values.slice(0, -2), before.values.at(-2) * 1.003, before.values.at(-1) * 0.997, before.values.at(-1) * 1.002].map((v: number) => Number(v.toFixed(3)));
+    await steward.post(`/api/v1/series/${seriesA}/vintages`).attach('file', csv(after), 'a-uc.csv').expect(201);
+    await settle();
+    const mail = mailsTo('board@alerts.test');
+    expect(mail).toHaveLength(1);
+    const text = mail[0].text.replace(/\s+/g, ' ');
+    const gap = async (values: number[]) => {
+      const r = (await boardOwner.post('/api/v1/decompose').send({ frequency: 'Q', start: '2000-Q1', values, transform: 'log100', method: 'uc', params: { trend: 'local-linear' } }).expect(200)).body;
+      return r.cycle.at(-1) as number;
+    };
+    expect(text).toContain(`“UC gap of A” (T_ALERT_A; Unobserved components, local linear trend, AR(2) cycle, 90 % band; 100 × log; your study). Last gap estimate: ${signed(await gap(before.values))} in ${quarter(before.values.length - 1)} on vintage`);
+    expect(text).toContain(`now ${signed(await gap(after))} in ${quarter(after.length - 1)} on vintage`);
+    await boardOwner.delete(`/api/v1/studies/${uc}`).expect(204);
+  }, 60_000);
+
   it('a dry run and a refused load send nothing', async () => {
     t.mail.clear();
     const latest = (await steward.get(`/api/v1/series/${seriesA}/vintages/latest/observations`).expect(200)).body.values as number[];

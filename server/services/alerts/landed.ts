@@ -14,6 +14,7 @@ import type { Logger } from '../../lib/logger.js';
 import { composeMail, type Mailer } from '../../mail/mailer.js';
 import type { LandedSource, StudyMove } from '../../schemas/alerts.js';
 import { CAUTION_LINE } from '../../schemas/cautions.js';
+import type { AnalysisPool } from '../../workers/pool.js';
 import { affectedPeople, studyMoves, type LandedVintages } from './moves.js';
 
 export type { LandedVintages };
@@ -24,6 +25,8 @@ export interface AlertDeps {
   background: Background;
   config: Config;
   logger?: Logger;
+  /** Worker threads for heavy batches (the app's pool); without it the decompositions run here. */
+  pool?: AnalysisPool;
 }
 
 /** New vintages of one series, or of several (`series`) when one load stored many. */
@@ -56,7 +59,7 @@ export async function sendReleaseAlerts(deps: AlertDeps, landed: VintagesLanded)
   const series = 'series' in landed ? landed.series : [{ seriesId: landed.seriesId, numbers: landed.numbers }];
   const recipients = await affectedPeople(deps.db, series.map((s) => s.seriesId));
   if (!recipients.length) return [];
-  const moves = await studyMoves(deps.db, series, recipients);
+  const moves = await studyMoves(deps.db, deps.pool, series, recipients);
   const codes: { id: number; code: string }[] = await deps.db('series').whereIn('id', series.map((s) => s.seriesId)).select('id', 'code');
   const what = series
     .map((s) => `${codes.find((c) => c.id === s.seriesId)?.code ?? `series ${s.seriesId}`} (vintage${s.numbers.length > 1 ? 's' : ''} ${[...s.numbers].sort((a, b) => a - b).join(', ')})`)

@@ -9,8 +9,12 @@ import type { Db } from '../../db.js';
 import { PERIODS_PER_YEAR } from '../../schemas/frequency.js';
 import type { StudyMove } from '../../schemas/alerts.js';
 import type { Study } from '../../schemas/studies.js';
+import type { DecomposeJson } from '../../schemas/decompose.js';
+import type { BatchItem, FailedItem } from '../../workers/batch-types.js';
+import type { AnalysisPool } from '../../workers/pool.js';
+import { readSeriesValues } from '../catalogue/stored-values.js';
+import { runBatch } from '../decompose.js';
 import { cycleUnit } from '../studies/results.js';
-import { runSpec } from '../studies/spec.js';
 import { getStudy } from '../studies/studies.js';
 
 /** New vintages of one series: their numbers (one for a load, several for a history load). */
@@ -73,41 +77,42 @@ export async function affectedPeople(db: Db, seriesIds: number[]): Promise<Recip
 }
 
 /** The last period with a gap estimate, and the estimate. */
-function lastGap(periods: string[], cycle: ArrayLike<number>) {
-  for (let i = cycle.length - 1; i >= 0; i--) if (Number.isFinite(cycle[i])) return { period: periods[i], gap: cycle[i] };
+function lastGap(periods: string[], cycle: (number | null)[]) {
+  for (let i = cycle.length - 1; i >= 0; i--) if (cycle[i] !== null && Number.isFinite(cycle[i])) return { period: periods[i], gap: cycle[i] as number };
   return { period: null, gap: null };
 }
 
+type Decomposed = DecomposeJson & Partial<FailedItem>;
+
 /**
- * How the gap of `study` moved from vintage `before` to vintage `after` of its series, with its
- * own method, parameters and transform: the last estimate of each, and the largest absolute
- * change over the last two years of the new sample (periods both vintages estimate).
+ * How the gap of `study` moved between two decompositions of its series (vintage `before` and
+ * `after`, with the study's own method, parameters and transform): the last estimate of each, and
+ * the largest absolute change over the last two years of the new sample (periods both estimate).
  */
-export async function studyMove(db: Db, study: Study, before: number, after: number, because: StudyMove['because']): Promise<StudyMove> {
-  const spec = { seriesId: study.seriesId, transform: study.transform, method: study.method, params: study.params };
-  const a = await runSpec(db, { ...spec, vintage: before });
-  const b = await runSpec(db, { ...spec, vintage: after });
-  const periodsA = a.result.periods ?? a.data.periods;
-  const periodsB = b.result.periods ?? b.data.periods;
+export function studyMove(study: Study, a: Decomposed, b: Decomposed, before: number, after: number, because: StudyMove['because']): StudyMove {
+  const periodsA = a.periods ?? [];
+  const periodsB = b.periods ?? [];
   const old = new Map<string, number>();
-  periodsA.forEach((p, i) => Number.isFinite(a.result.cycle[i]) && old.set(p, a.result.cycle[i]));
+  periodsA.forEach((p, i) => a.cycle[i] !== null && old.set(p, a.cycle[i] as number));
   const window = 2 * PERIODS_PER_YEAR[study.series.frequency];
   let largest: StudyMove['largestRevision'] = null;
-  for (let i = Math.max(0, periodsB.length - window); i < periodsB.length; i++) {
-    const y = b.result.cycle[i];
+  const end = b.extension ? b.extension.from : periodsB.length;
+  for (let i = Math.max(0, end - window); i < end; i++) {
+    const y = b.cycle[i];
     const x = old.get(periodsB[i]);
-    if (x === undefined || !Number.isFinite(y)) continue;
+    if (x === undefined || y === null) continue;
     if (!largest || Math.abs(y - x) > Math.abs(largest.change)) largest = { period: periodsB[i], before: x, after: y, change: y - x };
   }
+  const upTo = (d: Decomposed) => (d.extension ? d.cycle.slice(0, d.extension.from) : d.cycle);
   return {
     studyId: study.id,
     title: study.title,
-    methodLine: methodLine(b.result.method, b.result.params, b.result.transform, b.result.diagnostics),
+    methodLine: methodLine(b.method, b.params, b.transform, b.diagnostics),
     unitOfCycle: cycleUnit(study.transform, study.series.unit),
     seriesCode: study.series.code,
     because,
-    before: { vintage: before, ...lastGap(periodsA, a.result.cycle) },
-    after: { vintage: after, ...lastGap(periodsB, b.result.cycle) },
+    before: { vintage: before, ...lastGap(periodsA, upTo(a)) },
+    after: { vintage: after, ...lastGap(periodsB, upTo(b)) },
     largestRevision: largest,
   };
 }
@@ -119,21 +124,34 @@ export function comparedVintages(l: LandedVintages): { before: number; after: nu
   return { before: first - 1, after: Math.max(...l.numbers) };
 }
 
-/** Every affected study's move, computed once however many people follow it. */
-export async function studyMoves(db: Db, landed: LandedVintages[], recipients: Recipient[]): Promise<Map<number, Omit<StudyMove, 'because'>>> {
-  const out = new Map<number, Omit<StudyMove, 'because'>>();
-  const wanted = new Set(recipients.flatMap((r) => [...r.studies.keys()]));
+/**
+ * Every affected study's move, computed once however many people follow it: both vintages of
+ * every study in one batch, on the worker threads when the batch is heavy (services/decompose.ts).
+ */
+export async function studyMoves(db: Db, pool: AnalysisPool | undefined, landed: LandedVintages[], recipients: Recipient[]): Promise<Map<number, Omit<StudyMove, 'because'>>> {
+  const wanted = [...new Set(recipients.flatMap((r) => [...r.studies.keys()]))].sort((a, b) => a - b);
+  const jobs: { study: Study; before: number; after: number }[] = [];
+  const items: BatchItem[] = [];
   for (const id of wanted) {
     const study = await getStudy(db, id);
     const l = landed.find((x) => x.seriesId === study.seriesId);
     const v = l && comparedVintages(l);
     if (!v) continue;
-    try {
-      const { because: _, ...move } = await studyMove(db, study, v.before, v.after, []);
-      out.set(id, move);
-    } catch {
-      // A study whose method cannot run on one of the vintages (too short, say) is left out of the mail.
+    jobs.push({ study, ...v });
+    for (const number of [v.before, v.after]) {
+      const data = await readSeriesValues(db, study.seriesId, number);
+      items.push({ id: `${id}:${number}`, frequency: data.series.frequency, start: data.start ?? undefined, values: data.values, transform: study.transform, method: study.method, params: study.params });
     }
   }
+  const out = new Map<number, Omit<StudyMove, 'because'>>();
+  if (!items.length) return out;
+  const results = (await runBatch(items, 'full', pool)).map((j) => JSON.parse(j) as Decomposed);
+  jobs.forEach((job, k) => {
+    const [a, b] = [results[2 * k], results[2 * k + 1]];
+    // A study whose method cannot run on one of the vintages (too short, say) is left out of the mail.
+    if (a.error || b.error) return;
+    const { because: _, ...move } = studyMove(job.study, a, b, job.before, job.after, []);
+    out.set(job.study.id, move);
+  });
   return out;
 }
