@@ -101,6 +101,15 @@ describe('release day', () => {
     await note.getByRole('link').click();
     await page.waitForURL(updateUrl);
     await expect.poll(() => page.getByTestId('update-of-note').innerText()).toMatch(new RegExp(`exhibit ${exhibitId}, superseded`));
+
+    // Its public link (when links are allowed) says the same and leads to the update's.
+    await (await signedIn(t, 'admin@demo.test')).put('/api/v1/settings').send({ publicExhibitLinks: true }).expect(200);
+    const slugs = await t.db('exhibits').whereIn('id', [exhibitId, Number(updateUrl.split('/').pop())]).orderBy('id').pluck('public_slug');
+    await page.goto(`${t.url}/p/${slugs[0]}`);
+    await page.getByTestId('superseded-note').getByRole('link', { name: 'read the update' }).click();
+    await page.waitForURL(`${t.url}/p/${slugs[1]}`);
+    await page.getByTestId('exhibit-chart').locator('canvas').first().waitFor();
+    expect(await page.getByTestId('superseded-note').count()).toBe(0);
     expect(source.requests().every((r) => r.url.startsWith('/'))).toBe(true);
   }, 240_000);
 });

@@ -24,6 +24,20 @@ export function PublicExhibitPage() {
             <ErrorNote error={ex.error} />
           </>
         )}
+        {ex.data?.status === 'superseded' && (
+          <p role="note" className="mb-4 rounded border border-hairline-strong bg-paper-deep px-3 py-2 text-sm" data-testid="superseded-note">
+            This exhibit was superseded by an update
+            {ex.data.successorSlug ? (
+              <>
+                :{' '}
+                <a className="text-trend underline" href={`/p/${ex.data.successorSlug}`}>
+                  read the update
+                </a>
+              </>
+            ) : null}
+            . It stays as it was published.
+          </p>
+        )}
         {ex.data?.snapshot && (
           <div className="space-y-3">
             <ExhibitFigure snapshot={ex.data.snapshot} titleLevel={1} />
