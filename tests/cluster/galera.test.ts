@@ -71,7 +71,7 @@ describe('the schema and the demo seed on a Galera cluster', () => {
       const [engines] = await db.raw(`SELECT table_name AS name, engine FROM information_schema.tables WHERE table_schema = ? AND table_type = 'BASE TABLE' AND engine <> 'InnoDB'`, [CLUSTER_DB]);
       expect(engines).toEqual([]);
       const [triggers] = await db.raw('SELECT trigger_name AS name FROM information_schema.triggers WHERE trigger_schema = ? ORDER BY trigger_name', [CLUSTER_DB]);
-      expect(triggers.map((t: { name: string }) => t.name).sort()).toEqual(['observations_no_delete', 'observations_no_update', 'series_grams_insert', 'series_grams_update', 'vintage_metadata_no_delete', 'vintage_metadata_no_update', 'vintages_no_delete', 'vintages_no_update']);
+      expect(triggers.map((t: { name: string }) => t.name).sort()).toEqual(['exhibit_supersessions_no_delete', 'exhibit_supersessions_no_update', 'observations_no_delete', 'observations_no_update', 'series_grams_insert', 'series_grams_update', 'vintage_metadata_no_delete', 'vintage_metadata_no_update', 'vintages_no_delete', 'vintages_no_update']);
       const [[settings]] = await db.raw('SELECT @@binlog_format AS binlog, @@innodb_autoinc_lock_mode AS autoinc, @@wsrep_sync_wait AS syncWait, @@wsrep_mode AS mode');
       expect(settings).toMatchObject({ binlog: 'ROW', autoinc: 2, syncWait: 1 });
       expect(settings.mode).toMatch(/REQUIRED_PRIMARY_KEY/);
