@@ -4,9 +4,11 @@
  * one; publishing it supersedes the old one, which stays readable and unchanged, points to its
  * successor, and the successor points back. Readers see no review talk of either.
  */
+import JSZip from 'jszip';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
+import { asBytes } from '../helpers/parsers.js';
 import { addPerson, signedIn } from '../helpers/session.js';
 
 type Agent = Awaited<ReturnType<typeof signedIn>>;
@@ -155,4 +157,27 @@ describe('an update of an exhibit whose study follows the latest vintage', () =>
     expect(u.live.vintageStamp).toMatch(/vintage 5$/);
     expect((await author.get(`/api/v1/exhibits/${demo}`).expect(200)).body.snapshot.vintageStamp).toMatch(/vintage 4$/);
   });
+});
+
+describe('an update of an exhibit drafted from a board panel', () => {
+  it('replaces the old exhibit in the board’s publication pack once published', async () => {
+    const board = (await author.post('/api/v1/boards').send({ title: 'Pack board', visibility: 'team' }).expect(201)).body;
+    const studyId = (await author.post('/api/v1/studies').send({ title: 'Panel study', seriesId: gdpId, vintage: 'latest', transform: 'log100', method: 'hp', params: {} }).expect(201)).body.id;
+    const panel = (await author.post(`/api/v1/boards/${board.id}/panels`).send({ title: 'Gap', studyIds: [studyId], width: 1, height: 'm' }).expect(201)).body;
+    const old = (await author.post('/api/v1/exhibits').send({ panelId: panel.id, title: 'Panel gap, first edition' }).expect(201)).body.id;
+    await publish(old);
+    const files = async () => Object.keys((await JSZip.loadAsync((await viewer.get(`/api/v1/boards/${board.id}/pack.zip`).buffer(true).parse(asBytes as never).expect(200)).body as Buffer)).files).sort();
+    expect(await files()).toEqual(['chart-01-Panel_gap_first_edition.csv', 'chart-01-Panel_gap_first_edition.xlsx']);
+    const u = (await author.post(`/api/v1/exhibits/${old}/update`).expect(201)).body;
+    expect(u).toMatchObject({ panelId: panel.id, vintagePin: null, updateOf: old });
+    await author.patch(`/api/v1/exhibits/${u.id}`).send({ title: 'Panel gap, second edition' }).expect(200);
+    // While the update is in review, the pack still prints the published exhibit.
+    await move(author, u.id, 'in_review').expect(200);
+    expect(await files()).toEqual(['chart-01-Panel_gap_first_edition.csv', 'chart-01-Panel_gap_first_edition.xlsx']);
+    await move(editor, u.id, 'approved').expect(200);
+    await move(editor, u.id, 'published').expect(200);
+    expect(await files()).toEqual(['chart-01-Panel_gap_second_edition.csv', 'chart-01-Panel_gap_second_edition.xlsx']);
+    // Chosen by id, the superseded exhibit is refused from a pack like any exhibit that is not published.
+    expect((await viewer.post('/api/v1/exhibits/pack').send({ ids: [old] }).expect(409)).body.error.message).toMatch(/is superseded/);
+  }, 60_000);
 });

@@ -30,11 +30,11 @@ export async function exhibitPdf(deps: ExhibitDeps, user: PublicUser, id: number
   return { filename: `exhibit-${ex.id}-r${ex.revision}${draft}.pdf`, contentType: PDF_TYPE, body };
 }
 
-/** The published exhibits drafted from a board's panels, in the order of the panels. */
+/** The published exhibits drafted from a board's panels, in the order of the panels (a superseded one gives way to its update). */
 async function boardExhibits(deps: ExhibitDeps, user: PublicUser, boardId: number) {
   const board = await getBoard(deps.db, user, boardId);
   const panelIds = board.panels.map((p) => p.id);
-  const rows = panelIds.length ? await deps.db('exhibits').whereIn('panel_id', panelIds).where('status', 'published').select('id', 'panel_id') : [];
+  const rows = panelIds.length ? await deps.db('exhibits').whereIn('panel_id', panelIds).where('status', 'published').whereNotIn('id', deps.db('exhibit_supersessions').select('exhibit_id')).select('id', 'panel_id') : [];
   rows.sort((a, b) => panelIds.indexOf(a.panel_id) - panelIds.indexOf(b.panel_id) || a.id - b.id);
   const exhibits = await Promise.all(rows.map((r) => getExhibit(deps, user, r.id)));
   if (!exhibits.length) throw conflict('nothing_published', `The board “${board.title}” has no published exhibit yet: a publication pack holds published exhibits only.`);
