@@ -3,6 +3,7 @@
  * each is wrapped in RequireRole with the same access the server checks for its API, and the
  * navigation lists those with a `nav` label.
  */
+import { FeedsPage } from '@/features/feeds/FeedsPage';
 import type { ReactNode } from 'react';
 import { createBrowserRouter } from 'react-router-dom';
 import { PAGES, type PagePath } from '@schemas/access';
@@ -36,6 +37,7 @@ const ELEMENTS: Record<PagePath, ReactNode> = {
   '/catalogue': <CataloguePage />,
   '/catalogue/new': <NewSeriesPage />,
   '/catalogue/loads': <LoadsPage />,
+  '/catalogue/feeds': <FeedsPage />,
   '/catalogue/:id': <SeriesPage />,
   '/catalogue/:id/edit': <EditSeriesPage />,
   '/studies': <StudiesPage />,

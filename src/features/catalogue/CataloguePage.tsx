@@ -49,6 +49,9 @@ export function CataloguePage() {
               <Link to="/catalogue/loads" className="btn-quiet">
                 Loads
               </Link>
+              <Link to="/catalogue/feeds" className="btn-quiet">
+                Feeds
+              </Link>
               <Link to="/catalogue/new" className="btn">
                 New series
               </Link>
