@@ -17,4 +17,9 @@ if (only.length === 0 || only.includes('loads')) {
   code ||= spawnSync(process.execPath, ['--expose-gc', ...tsxArgs('scripts/bench/loads.ts')], { cwd: root, stdio: 'inherit', env: { ...process.env, DATABASE_URL: db.url } }).status ?? 1;
   if (db.owned) await db.stop();
 }
+if (only.length === 0 || only.includes('history')) {
+  const db = await provideDatabase('tidegauge_bench');
+  code ||= spawnSync(process.execPath, ['--expose-gc', ...tsxArgs('scripts/bench/history.ts')], { cwd: root, stdio: 'inherit', env: { ...process.env, DATABASE_URL: db.url } }).status ?? 1;
+  if (db.owned) await db.stop();
+}
 process.exit(code);

@@ -5,6 +5,7 @@ import { fileURLToPath } from 'node:url';
 import type { Db } from '../server/db.js';
 import { loadFile } from '../server/services/catalogue/loads.js';
 import { createSeries } from '../server/services/catalogue/series.js';
+import { loadHistory } from '../server/services/catalogue/history.js';
 
 const dir = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..', 'datasets', 'demo');
 
@@ -38,5 +39,12 @@ export async function seedDemoCatalogue(db: Db, people: Record<string, number>) 
       const buffer = fs.readFileSync(path.join(dir, v.file));
       await loadFile(db, { file: { buffer, filename: v.file }, seriesId: series.id, dryRun: false, fields: { note: v.note, asOf: v.asOf }, actor: { id: steward } });
     }
+  }
+  // The release histories (invented): every release of a series as one history load.
+  const histories = JSON.parse(fs.readFileSync(path.join(dir, 'histories.json'), 'utf8')) as { histories: (Omit<Manifest['series'][number], 'vintages'> & { file: string })[] };
+  for (const h of histories.histories) {
+    const series = await createSeries(db, steward, { code: h.code, title: h.title, frequency: h.frequency, unit: h.unit, seasonalAdjustment: h.seasonalAdjustment, source: h.source, notes: h.notes });
+    const buffer = fs.readFileSync(path.join(dir, h.file));
+    await loadHistory(db, { seriesId: series.id, file: { buffer, filename: h.file }, fields: {}, dryRun: false, actor: { id: steward } });
   }
 }

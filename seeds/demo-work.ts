@@ -30,4 +30,6 @@ export async function seedDemoWork(db: Db, people: Record<string, number>, confi
   await transition(deps, editor, published.id, 'approved', 'Clear and correctly stamped.');
   await transition(deps, editor, published.id, 'published', undefined);
   await createExhibit(deps, economist, { panelId: p1.id, title: 'Output gap for the next report (draft)' });
+  // On the release history (84 vintages): the real-time revision analysis has something to show.
+  await createStudy(db, economist, { title: 'Estuary output gap in real time, 84 releases', seriesId: await id('EST_GDP_RT'), vintage: 'latest', transform: 'log100', method: 'hp', params: { lambda: 1600 }, notes: 'Open “Real-time revisions”: every release of real GDP since 2004 (invented demo data).' });
 }

@@ -74,11 +74,12 @@ class Problems {
 }
 
 /** Values down one release, by period: duplicates and unreadable cells are problems. */
-function collect(cells: { row: number; period: string; value: string }[], frequency: Frequency, column: string, problems: Problems) {
+function collect(cells: { row: number; period: string; value: string }[], frequency: Frequency, column: string, problems: Problems, periodCache = new Map<string, ReturnType<typeof readPeriodCell>>()) {
   const byIndex = new Map<number, { row: number; period: string; value: number | null }>();
   for (const c of cells) {
     if (!c.value.trim()) continue;
-    const p = readPeriodCell(c.period, frequency);
+    let p = periodCache.get(c.period);
+    if (!p) periodCache.set(c.period, (p = readPeriodCell(c.period, frequency)));
     if ('error' in p) {
       problems.add(c.row, column, p.error);
       continue;
@@ -108,7 +109,12 @@ function collect(cells: { row: number; period: string; value: string }[], freque
 
 function readWide(rows: string[][], frequency: Frequency, options: HistoryOptions): HistoryRead {
   const problems = new Problems();
-  const isPeriod = (r: number) => !('error' in readPeriodCell(rows[r]?.[0] ?? '', frequency));
+  const periodOk = new Map<number, boolean>();
+  const isPeriod = (r: number) => {
+    let ok = periodOk.get(r);
+    if (ok === undefined) periodOk.set(r, (ok = !('error' in readPeriodCell(rows[r]?.[0] ?? '', frequency))));
+    return ok;
+  };
   // The first data row: a period in column A, followed by another (or the end of the table).
   let firstData = -1;
   const start = options.headerRow ? options.headerRow : 0;
@@ -145,6 +151,7 @@ function readWide(rows: string[][], frequency: Frequency, options: HistoryOption
   }
   const headers: HeaderReading[] = [];
   const releases: Release[] = [];
+  const periodCache = new Map<string, ReturnType<typeof readPeriodCell>>();
   const dataRows = [...Array(rows.length).keys()].filter((r) => r >= headerRow && r + 1 !== releaseDateRow);
   for (const c of columns) {
     const letter = columnLetter(c + 1);
@@ -175,7 +182,7 @@ function readWide(rows: string[][], frequency: Frequency, options: HistoryOption
       }
       cells.push({ row: r + 1, period: String(rows[r][0] ?? ''), value });
     }
-    releases.push({ column: letter, label: text || reading.asOf, asOf: reading.asOf, ...collect(cells, frequency, letter, problems) });
+    releases.push({ column: letter, label: text || reading.asOf, asOf: reading.asOf, ...collect(cells, frequency, letter, problems, periodCache) });
   }
   return { layout: 'wide', headerRow, releaseDateRow, detected: empty.detected, headers, releases, problems: problems.list };
 }
@@ -205,6 +212,7 @@ function readLong(rows: string[][], frequency: Frequency, given?: number): Histo
     g.cells.push({ row: r + 1, period: String(rows[r][p] ?? ''), value: String(rows[r][v] ?? '') });
   }
   const column = rows[headerRow - 1][k];
+  const periodCache = new Map<string, ReturnType<typeof readPeriodCell>>();
   for (const [label, g] of groups) {
     const reading = readReleaseLabel(label);
     base.headers.push({ column: `row ${g.row}`, text: label, readAs: reading.kind === 'none' ? reading.error : reading.readAs, asOf: reading.kind === 'none' ? null : reading.asOf });
@@ -212,7 +220,7 @@ function readLong(rows: string[][], frequency: Frequency, given?: number): Histo
       problems.add(g.row, column, `The release ${reading.error}`);
       continue;
     }
-    base.releases.push({ column: `row ${g.row}`, label, asOf: reading.asOf, ...collect(g.cells, frequency, rows[headerRow - 1][v], problems) });
+    base.releases.push({ column: `row ${g.row}`, label, asOf: reading.asOf, ...collect(g.cells, frequency, rows[headerRow - 1][v], problems, periodCache) });
   }
   return base;
 }

@@ -211,3 +211,26 @@ describe('history out', () => {
     }
   });
 });
+
+describe('the demo histories (invented)', () => {
+  it('hold at least 80 quarterly releases of real GDP and 150 monthly of industrial production, with a base-year change', async () => {
+    const gdp = (await viewer.get('/api/v1/series/EST_GDP_RT').expect(200)).body;
+    const ip = (await viewer.get('/api/v1/series/EST_IP_RT').expect(200)).body;
+    expect(gdp.vintageCount).toBeGreaterThanOrEqual(80);
+    expect(ip.vintageCount).toBeGreaterThanOrEqual(150);
+    expect(gdp.source).toMatch(/Invented/);
+    expect(ip.notes).toMatch(/Invented/);
+    // The base-year change of February 2013 rescales the whole level (old base 0.84 of the new).
+    const before = (await viewer.get('/api/v1/series/EST_GDP_RT/observations?asOf=2013-02-14').expect(200)).body;
+    const after = (await viewer.get('/api/v1/series/EST_GDP_RT/observations?asOf=2013-02-15').expect(200)).body;
+    expect(after.vintage.number).toBe(before.vintage.number + 1);
+    expect(after.values[0] / before.values[0]).toBeCloseTo(1 / 0.84, 3);
+    // Early revisions are small: the first estimate of 2010-Q1 against the one two years later.
+    const first = (await viewer.get('/api/v1/series/EST_GDP_RT/observations?asOf=2010-05-15').expect(200)).body;
+    const later = (await viewer.get('/api/v1/series/EST_GDP_RT/observations?asOf=2012-05-15').expect(200)).body;
+    const k = first.periods.indexOf('2010-Q1');
+    expect(first.periods[first.periods.length - 1]).toBe('2010-Q1');
+    expect(Math.abs(later.values[k] / first.values[k] - 1)).toBeLessThan(0.03);
+    expect(later.values[k]).not.toBe(first.values[k]);
+  });
+});

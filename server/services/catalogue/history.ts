@@ -16,7 +16,7 @@ import { dateOnly } from './rows.js';
 import { getSeries } from './series.js';
 import { checksumOf, insertObservations, keepVintageMetadata, observationsOf } from './vintages.js';
 import type { UploadedFile } from './loads/preview.js';
-import { compareVintages } from './revisions.js';
+import { revisionSummaryOf } from './revisions.js';
 
 export interface HistoryRequest {
   seriesId: number;
@@ -64,7 +64,7 @@ export async function loadHistory(db: Db, request: HistoryRequest): Promise<Hist
       skipped.push({ column: r.column, label: r.label, reason: `identical to ${before.what}` });
       continue;
     }
-    const changes = before ? compareVintages(before, r).summary : { revised: 0, new: r.periods.length, removed: 0, unchanged: 0, meanRevision: null, meanAbsoluteRevision: null, maxAbsoluteRevision: null };
+    const changes = before ? revisionSummaryOf(before, r) : { revised: 0, new: r.periods.length, removed: 0, unchanged: 0, meanRevision: null, meanAbsoluteRevision: null, maxAbsoluteRevision: null };
     candidates.push({ ...r, checksum, changes });
     before = { periods: r.periods, values: r.values, checksum, what: `the release before it (${r.column}, ${r.label})` };
   }

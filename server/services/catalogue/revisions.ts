@@ -36,6 +36,48 @@ export function compareVintages(a: PeriodLine, b: PeriodLine): { rows: RevisionR
   return { rows, summary };
 }
 
+/**
+ * The summary of compareVintages(a, b) alone, in one pass over two period-sorted lines of one
+ * frequency (canonical periods sort as text): what a history load reports for each of its hundreds
+ * of releases, where the per-period rows are not needed.
+ */
+export function revisionSummaryOf(a: PeriodLine, b: PeriodLine): RevisionSummary {
+  const s: RevisionSummary = { revised: 0, new: 0, removed: 0, unchanged: 0, meanRevision: null, meanAbsoluteRevision: null, maxAbsoluteRevision: null };
+  let sum = 0;
+  let sumAbs = 0;
+  let maxAbs = 0;
+  let n = 0;
+  let i = 0;
+  let j = 0;
+  while (i < a.periods.length || j < b.periods.length) {
+    const pa = a.periods[i];
+    const pb = b.periods[j];
+    if (pb === undefined || (pa !== undefined && pa < pb)) {
+      s.removed++;
+      i++;
+    } else if (pa === undefined || pb < pa) {
+      s.new++;
+      j++;
+    } else {
+      const from = a.values[i++];
+      const to = b.values[j++];
+      if (from === to) s.unchanged++;
+      else {
+        s.revised++;
+        if (from !== null && to !== null) {
+          const r = revisionOf(from, to);
+          sum += r;
+          sumAbs += Math.abs(r);
+          maxAbs = Math.max(maxAbs, Math.abs(r));
+          n++;
+        }
+      }
+    }
+  }
+  if (n) Object.assign(s, { meanRevision: sum / n, meanAbsoluteRevision: sumAbs / n, maxAbsoluteRevision: maxAbs });
+  return s;
+}
+
 export async function revisions(db: Db, seriesId: number, from: number | 'latest', to: number | 'latest') {
   const series = await getSeries(db, seriesId);
   const a = await resolveVintage(db, seriesId, from);
