@@ -65,6 +65,7 @@ export const PAGES = [
     access: ACCESS.studiesRead,
     api: ['GET /api/v1/studies/:id', 'POST /api/v1/studies/preview', 'POST /api/v1/studies/compare', 'POST /api/v1/studies/:id/realtime', 'GET /api/v1/studies/:id/export', 'GET /api/v1/studies/:id/script', 'GET /api/v1/methods', 'GET /api/v1/series', 'GET /api/v1/chronologies'],
   },
+  { path: '/analyses', access: ACCESS.analyses, api: ['POST /api/v1/studies/range', 'POST /api/v1/series/:series/reliability', 'GET /api/v1/series', 'GET /api/v1/methods'], nav: 'Range & reliability' },
   { path: '/boards', access: 'signedIn', api: ['GET /api/v1/boards'], nav: 'Boards' },
   { path: '/boards/:id', access: 'signedIn', api: ['GET /api/v1/boards/:id', 'GET /api/v1/boards/:id/panels/:panelId/data', 'GET /api/v1/boards/:id/pack.pdf', 'GET /api/v1/boards/:id/pack.zip'] },
   { path: '/exhibits', access: 'signedIn', api: ['GET /api/v1/exhibits', 'POST /api/v1/exhibits/pack'], nav: 'Exhibits' },

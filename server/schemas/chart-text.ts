@@ -39,7 +39,8 @@ export function chartData(option: unknown): ChartData {
   const yAxis = first(o.yAxis);
   const all = (Array.isArray(o.series) ? o.series : [o.series]).filter((s: Any) => s && ['line', 'bar', 'scatter'].includes(s.type)) as Any[];
   // The shaded period bands are a series of their own (charts/axes.ts): read for its marks, not as a line.
-  const series = all.filter((s) => s.id !== BAND_SERIES_ID);
+  // The filled difference of a band (charts/range.ts) is drawing, not data: its edges are lines of their own.
+  const series = all.filter((s) => s.id !== BAND_SERIES_ID && !String(s.id ?? '').startsWith('fill:'));
   const categorical = xAxis.type === 'category' || Array.isArray(xAxis.data);
   let rows: string[];
   let lines: ChartData['lines'];

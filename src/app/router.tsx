@@ -11,6 +11,7 @@ import { AcceptInvitationPage } from '@/features/auth/AcceptInvitationPage';
 import { ForgotPasswordPage, ResetPasswordPage } from '@/features/auth/PasswordPages';
 import { SignInPage } from '@/features/auth/SignInPage';
 import { BoardPage } from '@/features/boards/BoardPage';
+import { AnalysesPage } from '@/features/analyses/AnalysesPage';
 import { BoardsPage } from '@/features/boards/BoardsPage';
 import { ChronologyPage } from '@/features/chronology/ChronologyPage';
 import { CataloguePage } from '@/features/catalogue/CataloguePage';
@@ -43,6 +44,7 @@ const ELEMENTS: Record<PagePath, ReactNode> = {
   '/studies': <StudiesPage />,
   '/studies/new': <StudyPage />,
   '/studies/:id': <StudyPage />,
+  '/analyses': <AnalysesPage />,
   '/boards': <BoardsPage />,
   '/boards/:id': <BoardPage />,
   '/exhibits': <ExhibitsPage />,

@@ -65,3 +65,15 @@ describe('real-time reliability on a constructed history', () => {
     expect(band.at(-1)!.lower).toBeCloseTo(finalCycle[39] - 0.5, 12);
   });
 });
+
+describe('the range chart', () => {
+  it('its text alternative reads the band’s edges, the median and each method, never the filled difference', async () => {
+    const { rangeChart } = await import('../../server/schemas/charts/range.js');
+    const { chartData } = await import('../../server/schemas/chart-text.js');
+    const d = chartData(rangeChart({ periods: ['2020-Q1', '2020-Q2'], unit: '% of trend', median: [0.5, -1], min: [-1, -2], max: [2, 0.5], items: [{ name: 'A', values: [-1, 0.5] }, { name: 'B', values: [2, -2] }] }));
+    expect(d.lines.map((l) => l.name)).toEqual(['range across methods: lower edge', 'range across methods: upper edge', 'A', 'B', 'median']);
+    expect(d.lines[0].values).toEqual([-1, -2]);
+    expect(d.lines[1].values).toEqual([2, 0.5]);
+    expect(d.unit).toBe('% of trend');
+  });
+});

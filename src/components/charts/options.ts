@@ -6,3 +6,4 @@ export * from '@schemas/charts/options';
 export { axisFmt } from '@schemas/charts/palette';
 export { endOfSampleBand, timeAxis, yearTicks } from '@schemas/charts/axes';
 export { exhibitChart, exhibitFigure, figureText } from '@schemas/charts/figure';
+export { rangeChart, revisionBandChart } from '@schemas/charts/range';
