@@ -1,5 +1,5 @@
 /**
- * The Catalogue of the scale load test (issue 16): 10 000 quarterly series (invented), each with a
+ * The Catalogue of the scale load test (issue 16): 10 000 quarterly series (invented; SCALE_SERIES), each with a
  * 20-release history of 120 quarters from 1995-Q1 whose last eight periods are revised in every
  * release, and one steward and economist with an API token. Writes the token and the series ids
  * to the file given as the first argument.
@@ -18,7 +18,7 @@ import path from 'node:path';
 import { checksumOf, keepVintageMetadata } from '../../server/services/catalogue/vintages.js';
 import { freshLoadTestDb } from './fresh-db.js';
 
-const SCALE_SERIES = 10_000;
+const SCALE_SERIES = Number(process.env.SCALE_SERIES || 10_000);
 const RELEASES = 20;
 const PERIODS = 120;
 
@@ -37,7 +37,7 @@ const [stateFile, mode = 'sql', releaseDir] = process.argv.slice(2);
 const { db, uid, token } = await freshLoadTestDb({ email: 'scale@demo.test', name: 'Scale Test' });
 for (let s0 = 0; s0 < SCALE_SERIES; s0 += 1000) {
   const rows = [];
-  for (let s = s0; s < s0 + 1000; s++) {
+  for (let s = s0; s < Math.min(SCALE_SERIES, s0 + 1000); s++) {
     rows.push({ code: code(s), title: `Scale-test series ${s} (invented)`, frequency: 'Q', unit: 'index', seasonal_adjustment: 'sa', source: 'invented for the scale load test' });
   }
   await db('series').insert(rows);

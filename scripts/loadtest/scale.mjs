@@ -19,8 +19,12 @@ const PERIODS = 120;
 // A database server holding an institution's Catalogue has its cache sized to it: 1.5 GiB here for
 // the 0.95 GiB of data (when this run starts the private MariaDB; a running one keeps its setting).
 process.env.TIDEGAUGE_DB_BUFFER_POOL ??= '1536M';
-const db = await provideDatabase('tidegauge_scale');
-const stateFile = path.join(root, '.data', 'loadtest-scale-state.json');
+// SCALE_SERIES (10 000 by default) tries the whole run on a smaller Catalogue, in a database and
+// files of its own.
+const SERIES = Number(process.env.SCALE_SERIES || 10_000);
+const tag = SERIES === 10_000 ? '' : `-${SERIES}`;
+const db = await provideDatabase(`tidegauge_scale${tag.replace('-', '_')}`);
+const stateFile = path.join(root, '.data', `loadtest-scale${tag}-state.json`);
 const sql = knex({ client: 'mysql2', connection: db.url, pool: { min: 0, max: 2 } });
 
 const vintageCount = async () => {
@@ -37,7 +41,7 @@ const buildStart = Date.now();
 const fresh = process.env.SCALE_RESEED === '1' || !fs.existsSync(stateFile) || (await vintageCount()) < ids0().length * RELEASES;
 if (fresh) {
   log(`building the Catalogue at scale (${BUILD === 'sql' ? 'SQL bulk inserts' : 'loads over HTTP'})…`);
-  runTs('scripts/loadtest/scale-seed.ts', [stateFile, BUILD, path.join(root, '.data', 'scale-releases')], { DATABASE_URL: db.url });
+  runTs('scripts/loadtest/scale-seed.ts', [stateFile, BUILD, path.join(root, '.data', `scale-releases${tag}`)], { DATABASE_URL: db.url });
 }
 function ids0() {
   try {
@@ -70,7 +74,7 @@ for (let r = have + 1; r <= RELEASES && releases.length; r++) {
   log(`release ${r} of ${RELEASES}: ${body.vintages.length} vintages in ${((Date.now() - t0) / 1000).toFixed(1)} s`);
 }
 // The build's figures are kept with the database, so a later run that reuses it still reports them.
-const buildFile = path.join(root, '.data', 'loadtest-scale-build.json');
+const buildFile = path.join(root, '.data', `loadtest-scale${tag}-build.json`);
 if (fresh) fs.writeFileSync(buildFile, JSON.stringify({ how: BUILD, seconds: (Date.now() - buildStart) / 1000, at: new Date().toISOString() }));
 const build = fs.existsSync(buildFile) ? JSON.parse(fs.readFileSync(buildFile, 'utf8')) : null;
 const [[size]] = await sql.raw('SELECT SUM(data_length + index_length) AS bytes, SUM(table_rows) AS approxRows FROM information_schema.tables WHERE table_schema = DATABASE()');
@@ -141,6 +145,6 @@ const targets = [
 ];
 console.log('');
 for (const [what, ok] of targets) console.log(`${ok ? 'met   ' : 'MISSED'}  ${what}`);
-fs.writeFileSync(path.join(root, '.data', 'loadtest-scale.json'), JSON.stringify({ at: new Date().toISOString(), cores: os.cpus().length, observations, bytes: Number(size.bytes), build, rows, drain: { ms: drainMs, answered: drained['2xx'], refused: drained.non2xx, connectionErrors: drained.errors, logFailures: server.failures.length }, targets }, null, 2));
+fs.writeFileSync(path.join(root, '.data', `loadtest-scale${tag}.json`), JSON.stringify({ at: new Date().toISOString(), cores: os.cpus().length, observations, bytes: Number(size.bytes), build, rows, drain: { ms: drainMs, answered: drained['2xx'], refused: drained.non2xx, connectionErrors: drained.errors, logFailures: server.failures.length }, targets }, null, 2));
 await stop();
 process.exit(targets.every(([, ok]) => ok) ? 0 : 1);
