@@ -106,6 +106,8 @@ export interface Exhibit extends ExhibitSummary {
   successor: { id: number; title: string; publishedAt: string | null } | null;
   /** The vintage an update draws on when its study pins an older one. */
   vintagePin: number | null;
+  /** Updates of this published exhibit being prepared that the person asking may see (never shown to readers). */
+  updatesInProgress: { id: number; status: ExhibitState; author: { id: number; name: string } }[];
 }
 
 /** A published exhibit by its public link: what the published figure shows, nothing of its making (services/exhibits/views.ts). */

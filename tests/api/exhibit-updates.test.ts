@@ -73,12 +73,18 @@ describe('an update of an exhibit whose study pins an older vintage', () => {
     expect(again.body.error).toMatchObject({ code: 'update_in_progress', details: { exhibitId: updateId } });
     // A draft update is the author's: readers and other economists do not see it.
     await viewer.get(`/api/v1/exhibits/${updateId}`).expect(404);
-    expect((await viewer.get(`/api/v1/exhibits/${oldId}`).expect(200)).body).toMatchObject({ status: 'published', successor: null });
+    expect((await viewer.get(`/api/v1/exhibits/${oldId}`).expect(200)).body).toMatchObject({ status: 'published', successor: null, updatesInProgress: [] });
+    // The update in progress shows on the published exhibit to whoever may see the draft: its author only, for now.
+    expect((await economist2.get(`/api/v1/exhibits/${oldId}`).expect(200)).body.updatesInProgress).toEqual([{ id: updateId, status: 'draft', author: { id: u.author.id, name: 'Second Economist' } }]);
+    expect((await author.get(`/api/v1/exhibits/${oldId}`).expect(200)).body.updatesInProgress).toEqual([]);
+    expect((await editor.get(`/api/v1/exhibits/${oldId}`).expect(200)).body.updatesInProgress).toEqual([]);
   });
 
   it('the Review desk shows the change against the published exhibit: data, parameters, text', async () => {
     await economist2.patch(`/api/v1/exhibits/${updateId}`).send({ subtitle: 'As revised in summer' }).expect(200);
     await move(economist2, updateId, 'in_review').expect(200);
+    expect((await editor.get(`/api/v1/exhibits/${oldId}`).expect(200)).body.updatesInProgress).toEqual([{ id: updateId, status: 'in_review', author: expect.objectContaining({ name: 'Second Economist' }) }]);
+    expect((await viewer.get(`/api/v1/exhibits/${oldId}`).expect(200)).body.updatesInProgress).toEqual([]);
     const queue = (await editor.get('/api/v1/review').expect(200)).body.items;
     expect(queue.find((e: { id: number }) => e.id === updateId)).toMatchObject({ updateOf: oldId });
     const d = (await editor.get(`/api/v1/exhibits/${updateId}/diff`).expect(200)).body;

@@ -109,11 +109,13 @@ export async function getExhibit(deps: ExhibitDeps, user: PublicUser, id: number
     publicUrl: (row.status === 'published' || row.status === 'superseded') && settings.publicExhibitLinks && row.public_slug ? `${deps.config.publicOrigin}/p/${row.public_slug}` : null,
     ...(await lineage(db, user, row)),
   };
-  return seesReview(user, row) ? exhibit : readerView(exhibit);
+  if (seesReview(user, row)) return exhibit;
+  // A reader of the published exhibit who is preparing its update sees their own update, nothing else of the review.
+  return { ...readerView(exhibit), updatesInProgress: exhibit.updatesInProgress.filter((u) => u.author.id === user.id) };
 }
 
 /** An update's predecessor (when the person may see it) and a superseded exhibit's successor. */
-async function lineage(db: Db, user: PublicUser, row: Record<string, any>): Promise<Pick<Exhibit, 'predecessor' | 'successor' | 'vintagePin'>> {
+async function lineage(db: Db, user: PublicUser, row: Record<string, any>): Promise<Pick<Exhibit, 'predecessor' | 'successor' | 'vintagePin' | 'updatesInProgress'>> {
   let predecessor: Exhibit['predecessor'] = null;
   if (row.update_of) {
     const p = await exhibitRow(db, row.update_of);
@@ -124,7 +126,10 @@ async function lineage(db: Db, user: PublicUser, row: Record<string, any>): Prom
     const n = await exhibitRow(db, row.successor_id);
     successor = { id: n.id, title: n.title, publishedAt: iso(n.published_at) };
   }
-  return { predecessor, successor, vintagePin: row.vintage_pin ?? null };
+  // Updates being prepared are work in progress: shown only to those who may see each of them.
+  const open = row.status === 'published' ? await rows(db).where('e.update_of', row.id).whereIn('e.status', ['draft', 'in_review', 'returned', 'approved']).orderBy('e.id') : [];
+  const updatesInProgress = open.filter((u) => canSee(user, u)).map((u) => ({ id: u.id as number, status: u.status as ExhibitState, author: { id: u.author_id as number, name: u.author_name as string } }));
+  return { predecessor, successor, vintagePin: row.vintage_pin ?? null, updatesInProgress };
 }
 
 export async function listExhibits(db: Db, user: PublicUser, filter: { status?: string; mine?: boolean }): Promise<ExhibitSummary[]> {

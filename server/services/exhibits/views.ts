@@ -23,7 +23,7 @@ export function publicationRecord(events: ExhibitEvent[]): ExhibitEvent[] {
 /** An exhibit as a reader (not its author, an editor or an administrator) sees it: no review, no study's internal title. */
 export function readerView(exhibit: Exhibit): Exhibit {
   const snapshot = exhibit.snapshot && { ...exhibit.snapshot, studies: exhibit.snapshot.studies.map((s) => ({ ...s, title: '' })) };
-  return { ...exhibit, snapshot, events: publicationRecord(exhibit.events), moves: [], live: null };
+  return { ...exhibit, snapshot, events: publicationRecord(exhibit.events), moves: [], live: null, updatesInProgress: [] };
 }
 
 /** The figure's content only: no series or study records (ids, internal titles, checksums) and no notes. */

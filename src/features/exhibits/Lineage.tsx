@@ -16,6 +16,15 @@ export function Lineage({ exhibit: e }: { exhibit: Exhibit }) {
           . This version stays as it was published.
         </p>
       )}
+      {e.updatesInProgress.map((u) => (
+        <p key={u.id} role="note" className="mb-4 rounded border border-above px-3 py-2 text-sm" data-testid="update-in-progress">
+          An update of this exhibit is being prepared by {u.author.name}:{' '}
+          <Link to={`/exhibits/${u.id}`} className="text-trend underline">
+            exhibit {u.id} ({STATE_LABELS[u.status]})
+          </Link>
+          .
+        </p>
+      ))}
       {e.predecessor && (
         <p role="note" className="mb-4 rounded border border-hairline-strong px-3 py-2 text-sm" data-testid="update-of-note">
           An update of{' '}
