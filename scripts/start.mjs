@@ -39,6 +39,11 @@ if (!env.SMTP_URL && !env.MAIL_MODE) {
   env.MAIL_MODE = 'fake';
   log('SMTP_URL is not set: e-mail goes to the local fake mail server (Mailbox page). Set SMTP_URL to send real mail.');
 }
+if (!env.FAKE_SDMX) {
+  // The demo feed reads the local fake SDMX source (invented data), which runs beside the server.
+  env.FAKE_SDMX = '1';
+  log(`The local fake SDMX source (invented data) runs on http://127.0.0.1:${env.FAKE_SDMX_PORT || 2580}/rest for the demo feed; FAKE_SDMX=0 turns it off.`);
+}
 const server = spawn(process.execPath, tsxArgs('server/main.ts'), { cwd: root, stdio: 'inherit', env });
 
 // Ctrl-C reaches the server directly (same process group); we wait for it, then stop MariaDB.

@@ -39,6 +39,12 @@ export async function seedDemo(db: Db, { onlyIfEmpty, work = true }: { onlyIfEmp
     await seedDemoWork(db, ids, loadConfig(undefined, { MAIL_MODE: 'off' }));
     const { seedDemoChronology } = await import('./demo-chronology.js');
     await seedDemoChronology(db, ids);
+    // The demo feed reads the fake SDMX source that `npm start` runs (not in tests: they start their own).
+    const config = loadConfig();
+    if (config.fakeSdmx.enabled && config.env !== 'test') {
+      const { seedDemoFeed } = await import('./demo-feeds.js');
+      await seedDemoFeed(db, ids['steward@demo.test'], `http://127.0.0.1:${config.fakeSdmx.port}/rest`);
+    }
   }
   return true;
 }

@@ -13,6 +13,7 @@ import { FAKE_SERIES, fakeRelease } from '../../server/sdmx/fake-data.js';
 import { startFakeSdmxSource, type FakeSdmxSource } from '../../server/sdmx/fake-source.js';
 import { tickFeeds } from '../../server/services/feeds/scheduler.js';
 import type { FeedDeps } from '../../server/services/feeds/run.js';
+import { seedDemoFeed } from '../../seeds/demo-feeds.js';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { ndjsonEvents } from '../helpers/parsers.js';
 import { signedIn } from '../helpers/session.js';
@@ -214,5 +215,17 @@ describe('one run at a time', () => {
     // The next scheduled time runs again.
     const later = new Date(slot.getTime() + 5 * 60_000);
     expect(await tickFeeds(deps, later)).toContain(id);
+  });
+});
+
+describe('the demo feed', () => {
+  it('fills its three invented series from the fake source on its first run', async () => {
+    const stewardId = (await t.db('users').where('email', 'steward@demo.test').first()).id;
+    const feed = await seedDemoFeed(t.db, stewardId, source.url);
+    expect(feed.scheduleWords).toBe('At 09:30, Monday through Friday (UTC)');
+    const res = await steward.post(`/api/v1/feeds/${feed.id}/run`).expect(200);
+    expect(res.body.outcome, JSON.stringify(res.body)).toBe('stored');
+    expect(res.body.vintages.map((v: { code: string }) => v.code).sort()).toEqual(['EST_NA_GDP_VOL', 'EST_NA_HOURS', 'EST_RETAIL_VOL']);
+    expect(await observations('EST_RETAIL_VOL', 1)).toEqual(fakeRelease(RETAIL, source.release()));
   });
 });
