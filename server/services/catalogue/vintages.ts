@@ -121,23 +121,32 @@ export async function observationsAsOf(db: Db, ref: string, date: string): Promi
 const INSERT_ROWS = 10_000;
 
 /**
- * Inserts a new vintage's observations in batches of 10 000 rows, calling `onRows` after each.
- * Periods are canonical SDMX strings (digits, "-" and "Q", checked here) and values finite numbers
- * or null, so the VALUES list is built directly: much faster than binding every row.
+ * Inserts the observations of new vintages (one or many: a history load stores hundreds) in
+ * statements of up to 10 000 rows across vintages, calling `onRows` after each. Periods are
+ * canonical SDMX strings (digits, "-" and "Q", checked here) and values finite numbers or null,
+ * so the VALUES list is built directly: much faster than binding every row.
  */
-export async function insertObservations(trx: Knex.Transaction, vintageId: number, periods: string[], values: (number | null)[], onRows?: (rows: number) => void) {
-  for (let i = 0; i < periods.length; i += INSERT_ROWS) {
-    let sql = 'INSERT INTO observations (vintage_id, period, value) VALUES ';
-    const end = Math.min(periods.length, i + INSERT_ROWS);
-    for (let j = i; j < end; j++) {
+export async function insertObservations(trx: Knex.Transaction, parts: { vintageId: number; periods: string[]; values: (number | null)[] }[], onRows?: (rows: number) => void) {
+  let sql = '';
+  let rows = 0;
+  const flush = async () => {
+    if (!rows) return;
+    await trx.raw('INSERT INTO observations (vintage_id, period, value) VALUES ' + sql);
+    onRows?.(rows);
+    sql = '';
+    rows = 0;
+  };
+  for (const { vintageId, periods, values } of parts) {
+    const id = Number(vintageId);
+    for (let j = 0; j < periods.length; j++) {
       const p = periods[j];
       if (!/^[0-9Q-]{4,7}$/.test(p)) throw new Error(`unexpected period ${p}`);
       const v = values[j];
-      sql += `${j > i ? ',' : ''}(${Number(vintageId)},'${p}',${v === null || !Number.isFinite(v) ? 'NULL' : String(v)})`;
+      sql += `${rows ? ',' : ''}(${id},'${p}',${v === null || !Number.isFinite(v) ? 'NULL' : String(v)})`;
+      if (++rows === INSERT_ROWS) await flush();
     }
-    await trx.raw(sql);
-    onRows?.(end - i);
   }
+  await flush();
 }
 
 /** sha256 of the canonical observations ("period,value" lines): a vintage's checksum. */

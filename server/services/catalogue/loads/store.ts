@@ -75,7 +75,7 @@ export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, f
         load_id: loadId,
         created_by: actorId,
       });
-      await insertObservations(trx, vintageId, c.periods, c.values, (rows) => {
+      await insertObservations(trx, [{ vintageId, periods: c.periods, values: c.values }], (rows) => {
         written += rows;
         onProgress?.('storing', written, total);
       });
