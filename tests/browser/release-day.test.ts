@@ -32,12 +32,22 @@ afterAll(async () => {
 describe('release day', () => {
   it('a feed run brings a new vintage, the alert and an exhibit update that supersedes the published one', async () => {
     const { page } = browser;
-    // The steward registers the feed and runs it: the first release becomes vintage 1.
-    const steward = await signedIn(t, 'steward@demo.test');
-    const feed = (await steward.post('/api/v1/feeds').send({ name: 'Estuary national accounts', url: `${source.url}/data/EST_STATS,NA_MAIN,1.0/Q.EST.GDP_VOL`, mappings: [{ key: 'Q.EST.GDP_VOL', series: 'FK_GDP' }] }).expect(201)).body;
-    expect((await steward.post(`/api/v1/feeds/${feed.id}/run`).expect(200)).body.outcome).toBe('stored');
+    // The steward registers the feed on the Feeds page and runs it: the first release becomes vintage 1.
+    await signInAs(page, t.url, 'steward@demo.test');
+    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Catalogue' }).click();
+    await page.getByRole('link', { name: 'Feeds' }).click();
+    await page.getByRole('heading', { name: 'Feeds', level: 1 }).waitFor();
+    await page.getByLabel('Name', { exact: true }).fill('Estuary national accounts');
+    await page.getByLabel('SDMX data address').fill(`${source.url}/data/EST_STATS,NA_MAIN,1.0/Q.EST.GDP_VOL`);
+    await page.getByLabel('Key 1', { exact: true }).fill('Q.EST.GDP_VOL');
+    await page.getByLabel('Series 1', { exact: true }).selectOption('FK_GDP');
+    await page.getByRole('button', { name: 'Register the feed' }).click();
+    const card = page.getByRole('listitem').filter({ has: page.getByRole('heading', { name: 'Estuary national accounts' }) });
+    await card.waitFor();
+    await card.getByRole('button', { name: 'Run now' }).click();
+    await expect.poll(() => card.getByTestId('feed-run-result').innerText(), { timeout: 30_000 }).toMatch(/1 new vintage stored \(FK_GDP 1\)/);
 
-    // An economist follows the series; an exhibit drawn from the study is published.
+    // An economist follows the series; an exhibit drawn from the study is published (set up through the API).
     const economist = await signedIn(t, 'economist@demo.test');
     const editor = await signedIn(t, 'editor@demo.test');
     const study = (await economist.post('/api/v1/studies').send({ title: 'Gap from the office’s GDP', seriesId, vintage: 'latest', transform: 'log100', method: 'hp', params: { lambda: 1600 } }).expect(201)).body;
@@ -45,11 +55,13 @@ describe('release day', () => {
     await economist.post(`/api/v1/exhibits/${exhibitId}/transitions`).send({ to: 'in_review' }).expect(200);
     await editor.post(`/api/v1/exhibits/${exhibitId}/transitions`).send({ to: 'approved' }).expect(200);
     await editor.post(`/api/v1/exhibits/${exhibitId}/transitions`).send({ to: 'published' }).expect(200);
+    expect((await t.db('vintages').where('series_id', seriesId)).length).toBe(1);
 
-    // The office publishes; the next run stores vintage 2, which the series page shows.
+    // The office publishes; Run now stores vintage 2, shown in the feed's runs and on the series page.
     source.publish();
-    expect((await steward.post(`/api/v1/feeds/${feed.id}/run`).expect(200)).body.outcome).toBe('stored');
-    await signInAs(page, t.url, 'steward@demo.test');
+    await card.getByRole('button', { name: 'Run now' }).click();
+    await expect.poll(() => card.getByTestId('feed-run-result').innerText(), { timeout: 30_000 }).toMatch(/1 new vintage stored \(FK_GDP 2\)/);
+    await expect.poll(() => card.getByTestId('feed-runs').innerText()).toMatch(/FK_GDP 2/);
     await page.goto(`${t.url}/catalogue/${seriesId}`);
     await expect.poll(() => page.getByTestId('vintage-stamp').innerText()).toMatch(/vintage 2$/);
     await signOut(page);
