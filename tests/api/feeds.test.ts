@@ -5,7 +5,9 @@
  * the steward, the lease (one run at a time; a dead run's lease expires) and the scheduler (a
  * scheduled time runs once across two instances). Every request stays on 127.0.0.1.
  */
+import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { createApp } from '../../server/app.js';
 import { createBackground } from '../../server/lib/background.js';
 import { createLogger } from '../../server/lib/logger.js';
 import { createMailer } from '../../server/mail/mailer.js';
@@ -196,6 +198,22 @@ describe('one run at a time', () => {
     expect(dead.message).toMatch(/nothing of it was stored/);
     const lease = await t.db('feed_leases').where('feed_id', xmlFeed).first();
     expect(lease.holder).toBeNull();
+  });
+
+  it('two instances asked to run the same feed at once: one runs, the other is refused', async () => {
+    const second = createApp({ config: t.config, db: t.db, logger: createLogger('silent'), mailbox: t.mail });
+    const token = (await steward.post('/api/v1/tokens').send({ name: 'two instances' }).expect(201)).body.token;
+    const runsBefore = (await t.db('feed_runs').where({ feed_id: xmlFeed })).length;
+    source.publish();
+    source.setFault({ kind: 'slow', ms: 1500 });
+    const [a, b] = await Promise.all([t.app, second].map((app) => request(app).post(`/api/v1/feeds/${xmlFeed}/run`).set('Authorization', `Bearer ${token}`)));
+    source.setFault(null);
+    await second.locals.shutdown();
+    expect([a.status, b.status].sort()).toEqual([200, 409]);
+    const refused = a.status === 409 ? a : b;
+    expect(refused.body.error.code).toBe('feed_running');
+    expect((a.status === 200 ? a : b).body.outcome).toBe('stored');
+    expect(await t.db('feed_runs').where({ feed_id: xmlFeed })).toHaveLength(runsBefore + 1);
   });
 
   it('the scheduler runs a scheduled time once, though two instances tick at once', async () => {
