@@ -46,6 +46,8 @@ const valueText = (v: string | undefined) => (v === undefined || v.trim().toLowe
 /** Reads the series of an SDMX-ML 2.1 data message (structure-specific or generic). */
 export function readSdmxMl(buf: Buffer): SeriesRows[] {
   const text = decodeText(buf);
+  // SDMX messages never declare a document type; one that does may define entities that expand.
+  if (/<!DOCTYPE/i.test(text.slice(0, 65_536))) throw unprocessable('xml_doctype', 'The answer declares a document type (<!DOCTYPE>); SDMX-ML messages have none, so it is not read.');
   const parser = new XMLParser({
     ignoreAttributes: false,
     attributeNamePrefix: '@_',

@@ -79,6 +79,19 @@ describe('the local fake SDMX source', () => {
     expect([...fromXml[0].freqs.keys()]).toEqual(['M']);
   });
 
+  it('our SDMX-ML reader reads generic data too, and refuses a document type or a message that is not data', () => {
+    const generic = `<?xml version="1.0"?><message:GenericData xmlns:message="${'http://www.sdmx.org/resources/sdmxml/schemas/v2_1/message'}" xmlns:generic="http://www.sdmx.org/resources/sdmxml/schemas/v2_1/data/generic"><message:DataSet><generic:Series><generic:SeriesKey><generic:Value id="FREQ" value="A"/><generic:Value id="REF_AREA" value="EST"/></generic:SeriesKey><generic:Attributes><generic:Value id="UNIT_MEASURE" value="persons"/></generic:Attributes><generic:Obs><generic:ObsDimension value="2020"/><generic:ObsValue value="1.5"/></generic:Obs><generic:Obs><generic:ObsDimension value="2021"/><generic:ObsValue value="NaN"/></generic:Obs></generic:Series></message:DataSet></message:GenericData>`;
+    const [g] = readSdmxMl(Buffer.from(generic));
+    expect(g.key).toBe('A.EST');
+    expect(g.periods).toEqual(['2020', '2021']);
+    expect(g.values).toEqual(['1.5', '']);
+    expect([...g.units.keys()]).toEqual(['persons']);
+    const bomb = '<?xml version="1.0"?><!DOCTYPE x [<!ENTITY a "aaaaaaaaaa"><!ENTITY b "&a;&a;&a;&a;&a;&a;&a;&a;&a;&a;">]><message:StructureSpecificData>&b;</message:StructureSpecificData>';
+    expect(() => readSdmxMl(Buffer.from(bomb))).toThrow(/document type/);
+    expect(() => readSdmxMl(Buffer.from('<message:Structure xmlns:message="m"/>'))).toThrow(/root element is Structure/);
+    expect(() => readSdmxMl(Buffer.from('<a><b></a>'))).toThrow(/not well-formed XML/);
+  });
+
   it('keeps a period window and refuses an unknown flow or key as an SDMX service does', async () => {
     const csv = await (await get(`/data/${flow}/Q.EST.HOURS?format=csv&startPeriod=2010-Q1&endPeriod=2010`)).text();
     expect(pythonReadsCsv(csv)['Q.EST.HOURS'].map((r) => r[0])).toEqual(['2010-Q1', '2010-Q2', '2010-Q3', '2010-Q4']);
