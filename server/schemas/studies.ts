@@ -144,4 +144,6 @@ export interface RealtimeResult {
   note: string | null;
   /** The plural word for the frequency's periods ("quarters"). */
   word: string;
+  /** The latest estimate's last two years with the 5–95 % range of past revisions at each distance from the end (not a forecast). */
+  revisionBand: { period: string; distance: number; value: number; lower: number | null; upper: number | null }[];
 }

@@ -125,6 +125,11 @@ describe('POST /api/v1/series/:series/reliability', () => {
       expect(last.lower).toBeCloseTo(last.value + q(0.05), 10);
       expect(last.upper).toBeCloseTo(last.value + q(0.95), 10);
     }
+    // The study option: a saved study's real-time analysis carries the same band for its method.
+    const study = (await economist.post('/api/v1/studies').send({ title: 'band', seriesId: relId, vintage: 'latest', transform: 'log100', method: 'hp' }).expect(201)).body;
+    const realtime = (await economist.post(`/api/v1/studies/${study.id}/realtime`).expect(200)).body;
+    expect(realtime.revisionBand).toHaveLength(8);
+    expect(realtime.revisionBand).toEqual(result.items[0].revisionBand);
     // A one-sided filter holds up better in real time than the two-sided HP filter on the same vintages.
     expect(result.items[1].statistics.noiseToSignal).toBeLessThan(result.items[0].statistics.noiseToSignal);
     expect(result.notes.some((n: string) => /not a forecast/.test(n))).toBe(true);

@@ -8,6 +8,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { TestServer } from '../helpers/app.js';
 import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { signedIn } from '../helpers/session.js';
 
 let t: TestServer;
 let browser: BrowserSession;
@@ -64,5 +65,22 @@ describe('range and reliability', () => {
     await expect.poll(() => page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
     await page.screenshot({ path: path.join(os.tmpdir(), 'tg-range-390.png'), fullPage: true });
     expect(errors).toEqual([]);
+  }, 180_000);
+
+  it('a study’s real-time analysis shows the band of past revisions when asked, with its note', async () => {
+    const { page } = browser;
+    await page.setViewportSize({ width: 1440, height: 1000 });
+    const economist = await signedIn(t, 'economist@demo.test');
+    const gdp = (await economist.get('/api/v1/series/EST_GDP_REAL').expect(200)).body;
+    const study = (await economist.post('/api/v1/studies').send({ title: 'Band check', seriesId: gdp.id, vintage: 'latest', transform: 'log100', method: 'hamilton' }).expect(201)).body;
+    await page.goto(`${t.url}/studies/${study.id}`);
+    await page.getByRole('tab', { name: 'Real-time revisions' }).click();
+    await page.getByRole('button', { name: 'Run the revision analysis' }).click();
+    await page.getByTestId('fan-chart').locator('canvas').first().waitFor({ timeout: 90_000 });
+    expect(await page.getByTestId('study-revision-band').count()).toBe(0);
+    await page.getByRole('checkbox', { name: /band of past revisions/ }).check();
+    await page.getByTestId('study-revision-band').locator('canvas').first().waitFor();
+    expect(await page.getByText(/a record of past revisions, not a forecast/).count()).toBe(1);
+    await page.screenshot({ path: path.join(os.tmpdir(), 'tg-study-band-1440.png'), fullPage: true });
   }, 180_000);
 });

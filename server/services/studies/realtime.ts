@@ -1,5 +1,6 @@
 /** The real-time revision analysis of a study, across the vintages of its series. */
 import { methodLine, reliability } from '../../analysis/index.js';
+import { revisionBand, revisionSpread } from '../../analysis/realtime.js';
 import type { Db } from '../../db.js';
 import { conflict, HttpError } from '../../lib/errors.js';
 import type { Progress } from '../../lib/stream.js';
@@ -11,7 +12,7 @@ import type { AnalysisPool } from '../../workers/pool.js';
 import { readStoredValues, type SeriesValues } from '../catalogue/stored-values.js';
 import { listVintages } from '../catalogue/vintages.js';
 import { runBatch } from '../decompose.js';
-import { finiteRecord } from '../../lib/numbers.js';
+import { finiteOrNull, finiteRecord } from '../../lib/numbers.js';
 import { cycleUnit } from './results.js';
 import { getStudy } from './studies.js';
 
@@ -79,6 +80,10 @@ export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, i
     return finiteRecord(reliability(arr(a), arr(b)));
   };
   const quasiAt = new Map(quasi.map((q) => [q.period, q.value]));
+  // The band of past revisions by distance from the end (analysis/realtime.ts): earlier vintages against the final one.
+  const nan = (xs: (number | null)[]) => Float64Array.from(xs, (v) => (v === null ? NaN : v));
+  const finalLine = { periods: latest.periods, cycle: nan(final.cycle) };
+  const spread = revisionSpread(fan.slice(0, -1).map((f, k) => ({ periods: datas[k].periods, cycle: nan(f.cycle) })), finalLine, 2 * ppy);
   const rtPoints = realTime.filter((p) => p.period !== null);
   return {
     study: { id: s.id, title: s.title, method: s.method, params: s.params, transform: s.transform },
@@ -101,5 +106,6 @@ export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, i
         ? `Only ${rtPoints.length} vintages give a real-time end point, so the real-time statistics rest on few periods; the quasi-real-time statistics use ${quasi.length}.`
         : null,
     word: PERIOD_WORD[freq][1],
+    revisionBand: revisionBand(finalLine, spread).map((b) => ({ ...b, lower: finiteOrNull(b.lower), upper: finiteOrNull(b.upper) })),
   };
 }

@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { Chart } from '@/components/charts/Chart';
-import { compareChart, fanChart } from '@/components/charts/options';
+import { compareChart, fanChart, revisionBandChart } from '@/components/charts/options';
+import { REVISION_BAND_CAUTION } from '@schemas/cautions';
 import { fmt } from '@/components/charts/echarts';
 import { ErrorNote, Progress } from '@/components/ui';
 import { apiStream } from '@/lib/ndjson';
@@ -20,6 +21,7 @@ export function RealtimeView({ studyId }: { studyId: number | undefined }) {
   const [progress, setProgress] = useState<{ phase: string; done: number; total: number } | null>(null);
   const [result, setResult] = useState<RealtimeResult | null>(null);
   const [error, setError] = useState<unknown>(null);
+  const [showBand, setShowBand] = useState(false);
   const run = async () => {
     setError(null);
     setProgress({ phase: 'starting', done: 0, total: 1 });
@@ -81,6 +83,25 @@ export function RealtimeView({ studyId }: { studyId: number | undefined }) {
               })}
               height={300}
             />
+          </div>
+          <div className="card space-y-2 p-3">
+            <label className="flex items-center gap-2 text-sm">
+              <input type="checkbox" checked={showBand} onChange={(e) => setShowBand(e.target.checked)} /> Show the band of past revisions around the latest estimate
+            </label>
+            {showBand &&
+              (result.revisionBand.length ? (
+                <>
+                  <Chart
+                    testId="study-revision-band"
+                    label="The latest estimate with the band of past revisions"
+                    option={revisionBandChart({ name: `latest estimate (vintage ${result.finalVintage})`, unit: result.unitOfCycle, periods: result.revisionBand.map((b) => b.period), cycle: result.revisionBand.map((b) => b.value), band: result.revisionBand })}
+                    height={260}
+                  />
+                  <p className="text-sm text-above">{REVISION_BAND_CAUTION}</p>
+                </>
+              ) : (
+                <p className="text-sm text-ink-soft">Too few vintages for a band.</p>
+              ))}
           </div>
           <table className="card w-full text-sm" data-testid="reliability-table">
             <caption className="pb-1 text-left text-xs font-semibold uppercase tracking-wide text-ink-soft">Reliability of the estimates (Orphanides and van Norden 2002)</caption>
