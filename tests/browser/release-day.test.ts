@@ -5,6 +5,7 @@
  * published exhibit, an editor reviews it against the published one and publishes it; the old
  * exhibit says it is superseded and points to its successor. Every request stays on 127.0.0.1.
  */
+import fs from 'node:fs';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startFakeSdmxSource, type FakeSdmxSource } from '../../server/sdmx/fake-source.js';
 import type { TestServer } from '../helpers/app.js';
@@ -76,10 +77,21 @@ describe('release day', () => {
     expect(body).toContain('“Gap from the office’s GDP”');
     expect(body).toMatch(/through the feed “Estuary national accounts”/);
     expect(body).toMatch(/Last gap estimate: [+−][0-9.]+ in \d{4}-Q\d on vintage 1, now [+−][0-9.]+ in \d{4}-Q\d on vintage 2/);
+    const studyLink = await page.getByTestId('mailbox').getByRole('link', { name: /\/studies\/\d+/ }).first().getAttribute('href');
+    expect(studyLink).toBe(`${t.url}/studies/${study.id}`);
     await signOut(page);
 
-    // The economist prepares an update of the published exhibit and submits it.
+    // The economist follows the mail's link to the study and takes it away as a Python script.
     await signInAs(page, t.url, 'economist@demo.test');
+    await page.goto(studyLink!);
+    const [script] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: 'Rerun as a script' }).click()]);
+    expect(script.suggestedFilename()).toBe(`study-${study.id}.py`);
+    const text = fs.readFileSync((await script.path())!, 'utf8');
+    expect(text.startsWith('#!/usr/bin/env python3')).toBe(true);
+    expect(text).toContain('os.environ.get("TIDEGAUGE_TOKEN")');
+    expect(text).toContain('"vintage":2');
+
+    // The economist prepares an update of the published exhibit and submits it.
     await page.goto(`${t.url}/exhibits/${exhibitId}`);
     await page.getByRole('button', { name: 'Prepare an update' }).click();
     await page.waitForURL((u) => /\/exhibits\/\d+$/.test(u.pathname) && !u.pathname.endsWith(`/${exhibitId}`));
