@@ -83,6 +83,22 @@ describe('the study as a Python script', () => {
     }, 120_000);
   }
 
+  it('a series with a gap goes through POST /decompose, and says why', async () => {
+    const steward = await signedIn(t, 'steward@demo.test');
+    const id = (await steward.post('/api/v1/series').send({ code: 'T_SCRIPT_GAP', title: 'A series with a gap (invented)', frequency: 'Q', unit: 'index', seasonalAdjustment: 'sa', source: 'test' }).expect(201)).body.id;
+    const rows = Array.from({ length: 60 }, (_, i) => `${2000 + Math.floor(i / 4)}-Q${(i % 4) + 1},${i === 30 ? '' : (100 * Math.exp(0.005 * i + 0.02 * Math.sin(i / 4))).toFixed(3)}`);
+    await steward.post(`/api/v1/series/${id}/vintages`).attach('file', Buffer.from(['period,value', ...rows].join('\n') + '\n'), 'gap.csv').expect(201);
+    const study = (await economist.post('/api/v1/studies').send({ title: 'Gap with a gap', seriesId: id, vintage: 'latest', transform: 'log100', method: 'hp', params: { lambda: 1600 } }).expect(201)).body;
+    const file = path.join(dir, `study-${study.id}.py`);
+    fs.writeFileSync(file, await scriptOf(study.id));
+    const run = await python(file, { TIDEGAUGE_TOKEN: token, TIDEGAUGE_URL: t.url });
+    expect(run.code, run.stdout + run.stderr).toBe(0);
+    const r = result(run.stdout);
+    expect(r.engine).toBe("Tidegauge POST /api/v1/decompose (the data have gaps, which statsmodels' filters do not take)");
+    expect(r.periods).toBe(59);
+    expect(r.largestDifference).toBe(0);
+  }, 120_000);
+
   it('fails with the difference when a number the study showed is changed, and without a token says what to set', async () => {
     const study = (await economist.post('/api/v1/studies').send({ title: "O'Brien's gap \"quoted\" $& \\ '''", seriesId: gdpId, vintage: 4, transform: 'log100', method: 'hp', params: { lambda: 1600 } }).expect(201)).body;
     const text = await scriptOf(study.id);

@@ -108,11 +108,11 @@ def with_statsmodels(x):
     return None
 
 
-def with_api(values):
+def with_api(values, why):
     body = {"frequency": STUDY["frequency"], "start": STUDY["start"], "values": values, "transform": STUDY["transform"], "method": STUDY["method"], "params": STUDY["params"]}
     r = api("POST", "/api/v1/decompose", body)
     nan = float("nan")
-    return "Tidegauge POST /api/v1/decompose (statsmodels has no such method)", [nan if v is None else v for v in r["cycle"]], [nan if v is None else v for v in r["trend"]]
+    return "Tidegauge POST /api/v1/decompose (%s)" % why, [nan if v is None else v for v in r["cycle"]], [nan if v is None else v for v in r["trend"]]
 
 
 def largest(a, b, periods):
@@ -132,12 +132,14 @@ def main():
     stored = dict(zip(obs["periods"], obs["values"]))
     periods = SHOWN["periods"][: STUDY["dataLength"]]
     values = [stored.get(p) for p in periods]
-    done = None
+    done, why = None, "statsmodels has no such method"
+    if STUDY["method"] in ("hp", "baxter-king", "christiano-fitzgerald") and None in values:
+        why = "the data have gaps, which statsmodels' filters do not take"
     try:
         done = with_statsmodels(transformed(values))
     except ImportError as e:
-        print("statsmodels is not installed (%s); recomputing through the API instead." % e)
-    engine, cycle, trend = done if done else with_api(values)
+        why = "statsmodels is not installed: %s" % e
+    engine, cycle, trend = done if done else with_api(values, why)
     scale = max([abs(v) for v in SHOWN["cycle"][: len(periods)] if v is not None] or [1.0])
     d_cycle, at, n = largest(cycle, SHOWN["cycle"], periods)
     d_trend, at_trend, _ = largest(trend, SHOWN["trend"], periods)
