@@ -187,3 +187,18 @@ describe('an update of an exhibit drafted from a board panel', () => {
     expect((await viewer.post('/api/v1/exhibits/pack').send({ ids: [old] }).expect(409)).body.error.message).toMatch(/is superseded/);
   }, 60_000);
 });
+
+describe('an exhibit whose study is gone', () => {
+  it('cannot be updated, and says what to do instead; nothing is stored', async () => {
+    const studyId = (await author.post('/api/v1/studies').send({ title: 'Short-lived study', seriesId: gdpId, vintage: 'latest', transform: 'log100', method: 'hp', params: {} }).expect(201)).body.id;
+    const id = (await author.post('/api/v1/exhibits').send({ studyId, title: 'Orphan exhibit' }).expect(201)).body.id;
+    await publish(id);
+    await author.delete(`/api/v1/studies/${studyId}`).expect(204);
+    const before = Number((await t.db('exhibits').count({ n: '*' }))[0].n);
+    const res = await author.post(`/api/v1/exhibits/${id}/update`).expect(409);
+    expect(res.body.error).toMatchObject({ code: 'exhibit_source_gone', message: expect.stringMatching(/draft a new exhibit/) });
+    expect(Number((await t.db('exhibits').count({ n: '*' }))[0].n)).toBe(before);
+    // The published exhibit itself still reads from its snapshot.
+    expect((await viewer.get(`/api/v1/exhibits/${id}`).expect(200)).body.snapshot.text.title).toBe('Orphan exhibit');
+  });
+});
