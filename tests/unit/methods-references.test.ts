@@ -125,3 +125,17 @@ describe('BFGS — against scipy.optimize.minimize(method="BFGS")', () => {
     expect(r.f).toBeLessThan(1e-8);
   });
 });
+
+describe('uc with a gap', () => {
+  it('the filter skips a missing value: the trend runs through it, the cycle has no value there, and the likelihood drops by about one observation’s share', () => {
+    const full = decompose({ frequency: 'Q', values: y, method: 'uc' });
+    const holed = y.slice();
+    (holed as (number | null)[])[100] = null;
+    const r = decompose({ frequency: 'Q', values: holed, method: 'uc' });
+    expect(Number.isNaN(r.cycle[100])).toBe(true);
+    expect(Number.isFinite(r.trend[100])).toBe(true);
+    expect(Math.abs(r.trend[100] - full.trend[100])).toBeLessThan(1);
+    const perObservation = (full.diagnostics.loglike as number) / (y.length - 2);
+    expect(Math.abs((r.diagnostics.loglike as number) - ((full.diagnostics.loglike as number) - perObservation))).toBeLessThan(5);
+  });
+});
