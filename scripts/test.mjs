@@ -12,6 +12,7 @@ import {
   ensureNodeModules,
   ensurePrintTools,
   ensureSdmxClient,
+  ensureStatsmodels,
   log,
   provideDatabase,
   root,
@@ -23,6 +24,7 @@ const chromium = ensureChromium();
 ensureClusterPackages();
 ensurePrintTools();
 ensureSdmxClient();
+ensureStatsmodels();
 // The tests make their own databases (tidegauge_test_…) on this server; the demo database is
 // never touched.
 const db = await provideDatabase('tidegauge_test');

@@ -150,6 +150,16 @@ export function ensurePrintTools() {
   if (missing.length) aptInstall(missing, `The print tests read PDFs with poppler-utils and CSV files with pandas (${missing.join(', ')} missing).`);
 }
 
+/**
+ * The rerun-script tests run a study's Python script with Debian's python3, which recomputes the
+ * study with statsmodels (issue 15); `npm run references` and the bench's reference rows use it too.
+ */
+export function ensureStatsmodels() {
+  if (spawnSync('/usr/bin/python3', ['-c', 'import statsmodels'], { stdio: 'ignore' }).status !== 0) {
+    aptInstall(['python3-statsmodels'], 'The study-script tests run Python scripts that use statsmodels (python3-statsmodels), which is not installed.');
+  }
+}
+
 /** The SDMX tests read our SDMX REST answers with a real client: Debian's R package rsdmx (issue 15). */
 export function ensureSdmxClient() {
   if (spawnSync('Rscript', ['-e', 'library(rsdmx)'], { stdio: 'ignore' }).status !== 0) {
