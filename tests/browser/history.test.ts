@@ -94,5 +94,16 @@ describe('a history load in the browser', () => {
     const table = await page.getByTestId('reliability-table').innerText();
     expect(table).toMatch(/Periods compared\s*2[0-9]/);
     await page.screenshot({ path: path.join(os.tmpdir(), 'tg-history-realtime-1440.png'), fullPage: true });
+
+    // A study may pin a date: the vintage in force then (releases every 20th of Feb, May, Aug, Nov from 2006).
+    await page.getByRole('tab', { name: 'Decomposition' }).click();
+    await page.getByLabel('Vintage').selectOption('date');
+    await page.getByLabel('Data as of').fill('2008-01-01');
+    await expect.poll(() => page.getByTestId('vintage-stamp').innerText(), { timeout: 15_000 }).toMatch(/data as of 2007-11-20, vintage 8 \(pinned\)/);
+    await page.getByRole('button', { name: 'Save the changes' }).click();
+    await expect.poll(async () => (await t.db('studies').where('title', 'Real output gap in real time').first()).vintage_as_of, { timeout: 10_000 }).toBeTruthy();
+    await page.reload();
+    await expect.poll(() => page.getByTestId('vintage-stamp').innerText(), { timeout: 15_000 }).toMatch(/vintage 8 \(pinned\)/);
+    expect(await page.getByLabel('Data as of').inputValue()).toBe('2008-01-01');
   });
 });

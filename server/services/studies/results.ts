@@ -66,7 +66,7 @@ export async function computeSpec(db: Db, spec: StudySpec, opts: { frequency?: F
     diagnostics: { ...r.diagnostics },
     vintage: data.vintage.number,
     asOf: data.vintage.asOf,
-    vintagePin: spec.vintage,
+    vintagePin: spec.asOf ? data.vintage.number : spec.vintage,
     series: { id: data.series.id, code: data.series.code, title: data.series.title, unit: data.series.unit, frequency: data.series.frequency, source: data.series.source },
     statistics: finiteRecord(stats),
     turningPoints: tps.map((t) => ({ ...t, period: data.periods[t.index] })),

@@ -37,8 +37,8 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
   const form = useForm<CreateStudyBody>({
     resolver: zodResolver(createStudySchema) as never,
     defaultValues: study
-      ? { title: study.title, notes: study.notes ?? '', seriesId: study.seriesId, vintage: study.vintage, transform: study.transform, method: study.method, params: study.params }
-      : { title: '', notes: '', seriesId: seriesId ?? (undefined as unknown as number), vintage: 'latest', transform: 'log100', method: 'hp', params: {} },
+      ? { title: study.title, notes: study.notes ?? '', seriesId: study.seriesId, vintage: study.vintage, asOf: study.asOf, transform: study.transform, method: study.method, params: study.params }
+      : { title: '', notes: '', seriesId: seriesId ?? (undefined as unknown as number), vintage: 'latest', asOf: null, transform: 'log100', method: 'hp', params: {} },
   });
   const values = useWatch({ control: form.control });
   const series = list.data?.find((s) => s.id === values.seriesId);
@@ -56,11 +56,11 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
     }
   }, [series?.id]);
 
-  const spec: StudySpec | null = values.seriesId ? { seriesId: values.seriesId, vintage: values.vintage ?? 'latest', transform: values.transform ?? 'none', method: values.method ?? 'hp', params: (values.params ?? {}) as Record<string, unknown> } : null;
+  const spec: StudySpec | null = values.seriesId ? { seriesId: values.seriesId, vintage: values.vintage ?? 'latest', asOf: values.asOf ?? null, transform: values.transform ?? 'none', method: values.method ?? 'hp', params: (values.params ?? {}) as Record<string, unknown> } : null;
   // Recompute after the controls have been still for a moment: dragging λ sends no request per pixel.
   const debounced = useDebounced(spec, 350);
   const preview = usePreview(debounced);
-  const changed = !!study && JSON.stringify({ ...spec, title: values.title, notes: values.notes ?? '' }) !== JSON.stringify({ seriesId: study.seriesId, vintage: study.vintage, transform: study.transform, method: study.method, params: study.params, title: study.title, notes: study.notes ?? '' });
+  const changed = !!study && JSON.stringify({ ...spec, title: values.title, notes: values.notes ?? '' }) !== JSON.stringify({ seriesId: study.seriesId, vintage: study.vintage, asOf: study.asOf, transform: study.transform, method: study.method, params: study.params, title: study.title, notes: study.notes ?? '' });
 
   // Leaving with unsaved changes asks first (links inside the app, and closing or reloading the tab).
   const unsaved = canEdit && (study ? changed : !!values.seriesId);
@@ -143,6 +143,7 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
                     const next = list.data?.find((s) => s.id === Number(e.target.value));
                     field.onChange(Number(e.target.value));
                     form.setValue('vintage', 'latest');
+                    form.setValue('asOf', null);
                     if (next) form.setValue('params', {});
                   }}
                 >
@@ -164,8 +165,20 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
                 control={form.control}
                 name="vintage"
                 render={({ field }) => (
-                  <select id="vintage" className="field" disabled={!canEdit} value={String(field.value)} onChange={(e) => field.onChange(e.target.value === 'latest' ? 'latest' : Number(e.target.value))}>
+                  <select
+                    id="vintage"
+                    className="field"
+                    disabled={!canEdit}
+                    value={values.asOf ? 'date' : String(field.value)}
+                    onChange={(e) => {
+                      // A date pin reads the vintage in force on that date; a number or "latest" drops it.
+                      const v = e.target.value;
+                      form.setValue('asOf', v === 'date' ? (vintages.data?.[0]?.asOf ?? new Date().toISOString().slice(0, 10)) : null);
+                      field.onChange(v === 'latest' || v === 'date' ? 'latest' : Number(v));
+                    }}
+                  >
                     <option value="latest">latest (follows loads)</option>
+                    <option value="date">in force on a date…</option>
                     {vintages.data?.map((v) => (
                       <option key={v.number} value={v.number}>
                         {v.number} — {v.asOf}
@@ -175,6 +188,11 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
                 )}
               />
             </Field>
+            {values.asOf && (
+              <Field label="Data as of" htmlFor="vintage-as-of" hint="The vintage in force on this date: the latest released on or before it.">
+                <input id="vintage-as-of" type="date" className="field" disabled={!canEdit} value={values.asOf} onChange={(e) => e.target.value && form.setValue('asOf', e.target.value, { shouldDirty: true })} />
+              </Field>
+            )}
             <Field label="Transform" htmlFor="transform">
               <select id="transform" className="field" disabled={!canEdit} {...form.register('transform')}>
                 {TRANSFORMS.map((t) => (
