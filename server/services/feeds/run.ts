@@ -15,14 +15,15 @@ import type { Progress } from '../../lib/stream.js';
 import { composeMail, type Mailer } from '../../mail/mailer.js';
 import type { FileProblem, StoredLoadVintage } from '../../schemas/catalogue.js';
 import type { FeedOutcome, FeedRun, FeedSeriesProblems } from '../../schemas/feeds.js';
-import { notifyVintagesLanded } from '../alerts/landed.js';
+import { notifyVintagesLanded, type AlertDeps } from '../alerts/landed.js';
 import { checkAssigned, type AssignedGroup } from '../catalogue/loads/preview.js';
 import { storeLoad } from '../catalogue/loads/store.js';
 import { acquireLease, keepLease, leaseHolder, releaseLease } from './lease.js';
 import { getStoredFeed, toRun, type StoredFeed } from './registry.js';
 import { fetchAnswer, FeedFailure, findGroup } from './source.js';
 
-export interface FeedDeps {
+/** What a run needs: the app's dependencies, the worker pool among them for the release alerts' decompositions. */
+export interface FeedDeps extends AlertDeps {
   db: Db;
   config: Config;
   mailer: Mailer;
