@@ -8,7 +8,7 @@ import { studySchemas } from '../schemas/studies.js';
 import { studyExport } from '../services/exports.js';
 import { studyScript } from '../services/studies/script.js';
 import { realtimeAnalysis } from '../services/studies/realtime.js';
-import { compare, computeSpec, studyResult } from '../services/studies/results.js';
+import { compare, computeSpec, studyAnswer } from '../services/studies/results.js';
 import { createStudy, deleteStudy, duplicateStudy, getStudy, listStudies, updateStudy } from '../services/studies/studies.js';
 
 export function studyRoutes(deps: AppDeps): RouteSpec[] {
@@ -30,11 +30,11 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       method: 'post',
       path: '/studies',
       access: ACCESS.studiesWrite,
-      summary: 'Save a study: a series, a vintage pin (a number or "latest"), a transform, a method and its parameters',
+      summary: 'Save a study: a series, a vintage pin (a number or "latest"), a transform, a method and its parameters; or kind "range" with a list of methods',
       tags: ['studies'],
       body: createStudySchema,
       status: 201,
-      handler: ({ body, auth, req }) => createStudy(db, auth!.user, body, req.ip),
+      handler: ({ body, auth, req }) => createStudy(db, auth!.user, body, req.ip, deps.pool),
     },
     {
       method: 'post',
@@ -69,7 +69,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Change one’s own study',
       tags: ['studies'],
       body: updateStudySchema,
-      handler: ({ params, body, auth }) => updateStudy(db, auth!.user, idParam(params.id, 'The study'), body),
+      handler: ({ params, body, auth }) => updateStudy(db, auth!.user, idParam(params.id, 'The study'), body, deps.pool),
     },
     {
       method: 'delete',
@@ -86,15 +86,15 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Copy a study into one’s own',
       tags: ['studies'],
       status: 201,
-      handler: ({ params, auth }) => duplicateStudy(db, auth!.user, idParam(params.id, 'The study')),
+      handler: ({ params, auth }) => duplicateStudy(db, auth!.user, idParam(params.id, 'The study'), deps.pool),
     },
     {
       method: 'get',
       path: '/studies/:id/result',
       access: ACCESS.studiesRead,
-      summary: 'The decomposition of the study’s data, with the vintage used, statistics, turning points and gain',
+      summary: 'The decomposition of the study’s data, with the vintage used, statistics, turning points and gain; for a range study (kind "range") the range across its methods',
       tags: ['studies'],
-      handler: ({ params }) => studyResult(db, idParam(params.id, 'The study')),
+      handler: ({ params }) => studyAnswer(db, deps.pool, idParam(params.id, 'The study')),
     },
     {
       method: 'post',

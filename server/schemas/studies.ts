@@ -4,6 +4,10 @@ import { methodIdSchema, transformSchema, type Transform } from './decompose.js'
 import type { Frequency } from './frequency.js';
 import { isoDateSchema } from './catalogue.js';
 
+/** "single": one method and its parameters; "range": the range of gap estimates across several methods. */
+export const studyKindSchema = z.enum(['single', 'range'], { error: 'kind is "single" or "range".' });
+export type StudyKind = z.infer<typeof studyKindSchema>;
+
 export const vintagePinSchema = z.union([z.number().int().positive(), z.literal('latest')], { error: 'The vintage is a number (1, 2, …) or "latest".' });
 
 /** The study bodies, with `method` checked by the schema given (the server passes the registry's ids). */
@@ -22,10 +26,22 @@ export function studySchemas(method: z.ZodType<string> = methodIdSchema) {
     notes: z.string().max(10_000, 'Notes have at most 10 000 characters.').optional(),
   };
   const studySpecSchema = z.object({ ...fields, asOf: fields.asOf.optional(), vintage: fields.vintage.default('latest'), transform: fields.transform.default('none'), params: fields.params.default({}) });
-  const createStudySchema = studySpecSchema.extend(text);
+  /** A range study's methods: the range of gap estimates across them (at least two). */
+  const methods = z
+    .array(z.object({ method, params: z.record(z.string(), z.unknown()).default({}) }), { error: 'methods must be a list of {method, params}.' })
+    .min(2, 'A range study needs at least two methods.')
+    .max(12, 'A range study has at most 12 methods.');
+  const createStudySchema = studySpecSchema
+    .extend({ ...text, method: method.optional(), kind: studyKindSchema.default('single'), methods: methods.optional() })
+    .superRefine((v, ctx) => {
+      if (v.kind === 'single' && !v.method) ctx.addIssue({ code: 'custom', path: ['method'], message: 'Choose a method (or send kind "range" with a list of methods).' });
+      if (v.kind === 'range' && !v.methods) ctx.addIssue({ code: 'custom', path: ['methods'], message: 'A range study needs its methods: a list of {method, params}.' });
+      if (v.kind === 'range' && v.method) ctx.addIssue({ code: 'custom', path: ['method'], message: 'A range study has a list of methods, not one method: send methods instead.' });
+      if (v.kind === 'single' && v.methods) ctx.addIssue({ code: 'custom', path: ['methods'], message: 'A list of methods makes a range study: send kind "range" with it.' });
+    });
   // No defaults in a change: a field left out keeps its saved value (a default would reset it).
   const updateStudySchema = z
-    .object({ ...fields, ...text })
+    .object({ ...fields, ...text, methods })
     .partial()
     .refine((v) => Object.keys(v).length > 0, 'Send at least one field to change.');
   const compareSchema = z.object({
@@ -45,6 +61,12 @@ export function studySchemas(method: z.ZodType<string> = methodIdSchema) {
 export const { studySpecSchema, createStudySchema, updateStudySchema, compareSchema } = studySchemas();
 export type StudySpec = z.infer<typeof studySpecSchema>;
 export type CreateStudyBody = z.infer<typeof createStudySchema>;
+export type UpdateStudyBody = z.infer<typeof updateStudySchema>;
+/** One method of a range study. */
+export interface MethodChoice {
+  method: string;
+  params: Record<string, unknown>;
+}
 export type CompareBody = z.infer<typeof compareSchema>;
 
 /** A saved study as the API answers it. */
@@ -58,8 +80,12 @@ export interface Study {
   /** Set when the study pins a date rather than a number: it reads the vintage in force then. */
   asOf: string | null;
   transform: 'none' | 'log' | 'log100';
+  /** "range" studies have `method` "range", empty `params`, and their methods in `methods`. */
+  kind: StudyKind;
   method: string;
   params: Record<string, unknown>;
+  /** A range study's methods (null for a single-method study). */
+  methods: MethodChoice[] | null;
   owner: { id: number; name: string };
   createdAt: string;
   updatedAt: string;

@@ -11,7 +11,7 @@ import type { Board, Panel, PanelBody, PanelData } from '../schemas/boards.js';
 export type { Board, Panel, PanelData };
 import type { StudyResult } from '../schemas/studies.js';
 import { computeSpec } from './studies/results.js';
-import { getStudy } from './studies/studies.js';
+import { getStudy, singleMethodOnly } from './studies/studies.js';
 import { transaction } from '../lib/retry.js';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
@@ -88,7 +88,7 @@ export async function deleteBoard(db: Db, user: PublicUser, id: number) {
 
 async function checkStudies(db: Db, ids: number[]) {
   const studies = [];
-  for (const id of ids) studies.push(await getStudy(db, id));
+  for (const id of ids) studies.push(singleMethodOnly(await getStudy(db, id), 'A board panel'));
   const frequencies = [...new Set(studies.map((s) => s.series.frequency))];
   if (frequencies.length > 1) {
     throw badRequest('mixed_frequencies', `These studies are on series of different frequencies (${studies.map((s) => `${s.series.code}: ${s.series.frequency}`).join(', ')}); a panel compares series of one frequency. Compare them on a common frequency in a study’s Compare view.`);

@@ -136,7 +136,8 @@ export async function studyMoves(db: Db, pool: AnalysisPool | undefined, landed:
     const study = await getStudy(db, id);
     const l = landed.find((x) => x.seriesId === study.seriesId);
     const v = l && comparedVintages(l);
-    if (!v) continue;
+    // A range study has no one cycle to move; its followers are told of its single-method studies only.
+    if (!v || study.kind === 'range') continue;
     jobs.push({ study, ...v });
     for (const number of [v.before, v.after]) {
       const data = await readSeriesValues(db, study.seriesId, number);

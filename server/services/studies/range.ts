@@ -15,7 +15,9 @@ import type { AnalysisPool } from '../../workers/pool.js';
 import type { FailedItem } from '../../workers/batch-types.js';
 import { readSeriesValues } from '../catalogue/stored-values.js';
 import { runBatch } from '../decompose.js';
-import { cycleUnit } from './results.js';
+import { cycleUnit } from './spec.js';
+import { vintageInForce } from '../catalogue/vintages.js';
+import type { MethodChoice, StudySpec } from '../../schemas/studies.js';
 
 const toNaN = (a: (number | null)[]) => Float64Array.from(a, (v) => (v === null ? NaN : v));
 const toNull = (a: ArrayLike<number>) => Array.from(a, (v) => (Number.isFinite(v) ? v : null));
@@ -53,4 +55,13 @@ export async function rangeOfEstimates(db: Db, pool: AnalysisPool | undefined, b
     count: Array.from(range.count),
     cautions: [...CAUTIONS, RANGE_CAUTION],
   };
+}
+
+/**
+ * A range study's specification run on its stored series: a date pin reads the vintage in force
+ * on that date, as for a single-method study.
+ */
+export async function runRangeSpec(db: Db, pool: AnalysisPool | undefined, spec: Omit<StudySpec, 'method' | 'params'> & { methods: MethodChoice[] }) {
+  const vintage = spec.asOf ? (await vintageInForce(db, spec.seriesId, spec.asOf)).number : spec.vintage;
+  return rangeOfEstimates(db, pool, { seriesId: spec.seriesId, vintage, transform: spec.transform, methods: spec.methods });
 }

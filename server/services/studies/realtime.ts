@@ -14,7 +14,7 @@ import { listVintages } from '../catalogue/vintages.js';
 import { runBatch } from '../decompose.js';
 import { finiteOrNull, finiteRecord } from '../../lib/numbers.js';
 import { cycleUnit } from './results.js';
-import { getStudy } from './studies.js';
+import { getStudy, singleMethodOnly } from './studies.js';
 
 /**
  * Applies the study's method to every vintage of its series and compares the real-time
@@ -24,7 +24,7 @@ import { getStudy } from './studies.js';
  * point. total revision = (real-time − quasi-real-time) + (quasi-real-time − final).
  */
 export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, id: number, onProgress?: Progress): Promise<RealtimeResult> {
-  const s = await getStudy(db, id);
+  const s = singleMethodOnly(await getStudy(db, id), 'The real-time analysis');
   const vintages = (await listVintages(db, s.seriesId)).sort((a, b) => a.number - b.number);
   if (vintages.length < 2) throw conflict('too_few_vintages', 'The real-time analysis needs at least two vintages of the series.');
   // Every vintage in one read (a handful of queries, cached by vintage), not one read each.

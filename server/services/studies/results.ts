@@ -12,19 +12,16 @@ import { FREQUENCY_LABELS, PERIOD_WORD, PERIODS_PER_YEAR, type Frequency } from 
 import { badRequest } from '../../lib/errors.js';
 import type { CompareBody, CompareResult, StudyResult, StudySpec } from '../../schemas/studies.js';
 import { runSpec } from './spec.js';
-import { getStudy } from './studies.js';
+import { getStudy, singleMethodOnly } from './studies.js';
+import { runRangeSpec } from './range.js';
+import type { AnalysisPool } from '../../workers/pool.js';
+import type { RangeResult } from '../../schemas/analyses.js';
+import type { Study } from '../../schemas/studies.js';
 
 
-/**
- * The unit of the cycle, from the transform and the series' unit: a logged series' gap is a
- * percent deviation from trend (100 × log) or log points; a series in percent (a rate, a ratio to
- * GDP) decomposed as it is has its gap in percentage points; otherwise the series' own unit.
- */
-export function cycleUnit(transform: string, unit: string) {
-  if (transform === 'log100') return '% of trend';
-  if (transform === 'log') return 'log points';
-  return /%|percent/i.test(unit) ? 'percentage points' : unit;
-}
+import { cycleUnit } from './spec.js';
+
+export { cycleUnit };
 
 /**
  * What the end of the sample means for this result: a two-sided filter's last two years will be
@@ -81,10 +78,24 @@ export async function computeSpec(db: Db, spec: StudySpec, opts: { frequency?: F
   };
 }
 
+/** A single-method study's result (exports, scripts); a range study is refused with what to use instead. */
 export async function studyResult(db: Db, id: number) {
-  const s = await getStudy(db, id);
+  const s = singleMethodOnly(await getStudy(db, id), 'This');
   const result = await computeSpec(db, s);
   return { study: s, ...result };
+}
+
+/** A range study's result: the range of gap estimates across its methods, as POST /studies/range answers it. */
+export async function rangeStudyResult(db: Db, pool: AnalysisPool | undefined, s: Study): Promise<RangeResult & { kind: 'range'; study: Study }> {
+  const r = await runRangeSpec(db, pool, { ...s, methods: s.methods! });
+  return { kind: 'range', study: s, ...r };
+}
+
+/** GET /studies/:id/result: the decomposition, or for a range study the range across its methods (told apart by `kind`). */
+export async function studyAnswer(db: Db, pool: AnalysisPool | undefined, id: number) {
+  const s = await getStudy(db, id);
+  if (s.kind === 'range') return rangeStudyResult(db, pool, s);
+  return { kind: 'single' as const, study: s, ...(await computeSpec(db, s)) };
 }
 
 // ------------------------------------------------------------------ comparisons

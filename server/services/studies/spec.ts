@@ -22,3 +22,14 @@ export async function runSpec(db: Db, spec: StudySpec, opts: { frequency?: Frequ
   const r = decompose({ frequency: to, start, values: data.values, transform: spec.transform, method: spec.method, params: spec.params });
   return { params: r.params, data: { ...data, start: start ?? null }, result: r, aggregated: to !== stored.series.frequency ? { from: stored.series.frequency, to } : null };
 }
+
+/**
+ * The unit of the cycle, from the transform and the series' unit: a logged series' gap is a
+ * percent deviation from trend (100 × log) or log points; a series in percent (a rate, a ratio to
+ * GDP) decomposed as it is has its gap in percentage points; otherwise the series' own unit.
+ */
+export function cycleUnit(transform: string, unit: string) {
+  if (transform === 'log100') return '% of trend';
+  if (transform === 'log') return 'log points';
+  return /%|percent/i.test(unit) ? 'percentage points' : unit;
+}

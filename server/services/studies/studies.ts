@@ -1,13 +1,17 @@
 /**
  * Studies: saved decompositions of a Catalogue series (a vintage pin or "latest"), a transform, a
- * method and its parameters. Only the owner changes or deletes a study; others duplicate it.
+ * method and its parameters — or, for a study of kind "range", a list of methods whose range of
+ * gap estimates it shows. Only the owner changes or deletes a study; others duplicate it.
  */
 import type { Db } from '../../db.js';
 import { conflict, forbidden, notFound } from '../../lib/errors.js';
 import type { PublicUser } from '../../schemas/people.js';
-import type { CreateStudyBody, Study, StudySpec } from '../../schemas/studies.js';
+import type { CreateStudyBody, MethodChoice, Study, StudySpec, UpdateStudyBody } from '../../schemas/studies.js';
+import type { AnalysisPool } from '../../workers/pool.js';
+import { badRequest } from '../../lib/errors.js';
 import { audit } from '../audit.js';
 import { runSpec } from './spec.js';
+import { runRangeSpec } from './range.js';
 import { dateOnly } from '../catalogue/rows.js';
 
 function toStudy(r: Record<string, any>): Study {
@@ -20,8 +24,10 @@ function toStudy(r: Record<string, any>): Study {
     vintage: r.vintage_number ?? 'latest',
     asOf: r.vintage_as_of ? dateOnly(r.vintage_as_of) : null,
     transform: r.transform,
+    kind: r.kind ?? 'single',
     method: r.method,
     params: JSON.parse(r.params),
+    methods: r.methods ? JSON.parse(r.methods) : null,
     owner: { id: r.owner_id, name: r.owner_name },
     createdAt: new Date(r.created_at).toISOString(),
     updatedAt: new Date(r.updated_at).toISOString(),
@@ -50,16 +56,17 @@ export async function getStudy(db: Db, id: number): Promise<Study> {
 }
 
 /** Checks a study's specification by computing it once; returns the parameters with defaults filled. */
-export async function createStudy(db: Db, owner: PublicUser, body: CreateStudyBody, ip?: string) {
-  const { params } = await runSpec(db, body);
+export async function createStudy(db: Db, owner: PublicUser, body: Omit<CreateStudyBody, 'kind'> & { kind?: Study['kind'] }, ip?: string, pool?: AnalysisPool) {
+  const kind = body.kind ?? 'single';
+  const checked = await checkSpec(db, pool, kind, { ...body, method: body.method ?? RANGE, methods: body.methods ?? null });
   const [id] = await db('studies').insert({
     owner_id: owner.id,
     series_id: body.seriesId,
     vintage_number: body.vintage === 'latest' || body.asOf ? null : body.vintage,
     vintage_as_of: body.asOf ?? null,
     transform: body.transform,
-    method: body.method,
-    params: JSON.stringify(params),
+    kind,
+    ...checked,
     title: body.title,
     notes: body.notes ?? null,
   });
@@ -67,13 +74,44 @@ export async function createStudy(db: Db, owner: PublicUser, body: CreateStudyBo
   return getStudy(db, id);
 }
 
+/**
+ * A study of one method, for what only such a study has (exports, scripts, the real-time
+ * analysis, release alerts); a range study is refused with what to use instead. `what` starts
+ * the message ("The real-time analysis").
+ */
+export function singleMethodOnly(study: Study, what: string): Study {
+  if (study.kind === 'range')
+    throw badRequest('range_study', `${what} is for a study of one method, and "${study.title}" is a range study across methods: its range is on the study page (GET /studies/${study.id}/result); save a study of one of its methods for this.`);
+  return study;
+}
+
+/** The `method` column of a range study. */
+const RANGE = 'range';
+
+/**
+ * Checks a specification by computing it once (AnalysisError → 400) and answers the columns that
+ * hold the method(s) with every default filled in.
+ */
+async function checkSpec(db: Db, pool: AnalysisPool | undefined, kind: Study['kind'], spec: StudySpec & { methods: MethodChoice[] | null }) {
+  if (kind === 'range') {
+    const r = await runRangeSpec(db, pool, { ...spec, methods: spec.methods! });
+    return { method: RANGE, params: '{}', methods: JSON.stringify(r.items.map((i) => ({ method: i.method, params: i.params }))) };
+  }
+  const { params } = await runSpec(db, spec);
+  return { method: spec.method, params: JSON.stringify(params), methods: null };
+}
+
 function assertOwner(study: Study, user: PublicUser) {
   if (study.owner.id !== user.id) throw forbidden('not_owner', `Only ${study.owner.name}, who owns this study, can change it; duplicate it to make your own.`);
 }
 
-export async function updateStudy(db: Db, user: PublicUser, id: number, body: Partial<CreateStudyBody>) {
+export async function updateStudy(db: Db, user: PublicUser, id: number, body: UpdateStudyBody, pool?: AnalysisPool) {
   const study = await getStudy(db, id);
   assertOwner(study, user);
+  if (study.kind === 'range' && (body.method !== undefined || body.params !== undefined))
+    throw badRequest('range_study', 'This is a range study: change its list of methods (methods), not method or params.', [{ path: body.method !== undefined ? 'method' : 'params', message: 'A range study has methods, not one method.' }]);
+  if (study.kind === 'single' && body.methods !== undefined)
+    throw badRequest('single_study', 'This study has one method: change method and params, or save a new study of kind "range" for a list of methods.', [{ path: 'methods', message: 'A single-method study has no list of methods.' }]);
   const spec: StudySpec = {
     seriesId: body.seriesId ?? study.seriesId,
     vintage: body.vintage ?? study.vintage,
@@ -83,7 +121,7 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Pa
     method: body.method ?? study.method,
     params: body.params ?? (body.method && body.method !== study.method ? {} : study.params),
   };
-  const { params } = await runSpec(db, spec);
+  const checked = await checkSpec(db, pool, study.kind, { ...spec, methods: body.methods ?? study.methods });
   await db('studies')
     .where('id', id)
     .update({
@@ -91,8 +129,7 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Pa
       vintage_number: spec.vintage === 'latest' || spec.asOf ? null : spec.vintage,
       vintage_as_of: spec.asOf ?? null,
       transform: spec.transform,
-      method: spec.method,
-      params: JSON.stringify(params),
+      ...checked,
       title: body.title ?? study.title,
       notes: body.notes === undefined ? study.notes : body.notes,
       updated_at: new Date(),
@@ -100,9 +137,10 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Pa
   return getStudy(db, id);
 }
 
-export async function duplicateStudy(db: Db, user: PublicUser, id: number) {
+export async function duplicateStudy(db: Db, user: PublicUser, id: number, pool?: AnalysisPool) {
   const s = await getStudy(db, id);
-  return createStudy(db, user, { title: `${s.title} (copy)`.slice(0, 200), notes: s.notes ?? undefined, seriesId: s.seriesId, vintage: s.vintage, asOf: s.asOf, transform: s.transform, method: s.method, params: s.params });
+  const which = s.kind === 'range' ? { method: undefined, methods: s.methods! } : { method: s.method, methods: undefined };
+  return createStudy(db, user, { title: `${s.title} (copy)`.slice(0, 200), notes: s.notes ?? undefined, seriesId: s.seriesId, vintage: s.vintage, asOf: s.asOf, transform: s.transform, kind: s.kind, params: s.params, ...which }, undefined, pool);
 }
 
 export async function deleteStudy(db: Db, user: PublicUser, id: number, ip?: string) {

@@ -14,16 +14,25 @@ export function StudiesPage() {
   const studies = useStudies({ mine, method: method || undefined, q: q || undefined });
   const navigate = useNavigate();
   const methods = useMethods().data?.methods ?? [];
-  const nameOf = (id: string) => methods.find((m) => m.id === id)?.name ?? id;
+  const nameOf = (s: { method: string; methods: unknown[] | null }) => (s.methods ? `Range across ${s.methods.length} methods` : (methods.find((m) => m.id === s.method)?.name ?? s.method));
   return (
     <>
-      <PageHeader title="Studies" actions={allows(ACCESS.studiesWrite, me.data?.roles) && <Link to="/studies/new" className="btn">New study</Link>}>
-        Saved decompositions: a series, a vintage (pinned, or the latest), a method and its parameters.
+      <PageHeader title="Studies" actions={
+          allows(ACCESS.studiesWrite, me.data?.roles) && (
+            <>
+              <Link to="/studies/new" className="btn">New study</Link>
+              <Link to="/analyses" className="btn-quiet">New range study</Link>
+            </>
+          )
+        }
+      >
+        Saved decompositions: a series, a vintage (pinned, or the latest), a method and its parameters — or a range study, the range of estimates across several methods.
       </PageHeader>
       <div className="mb-3 flex flex-wrap items-center gap-3">
         <input className="field max-w-xs" placeholder="Search title or series" value={q} onChange={(e) => setQ(e.target.value)} aria-label="Search studies" />
         <select className="field max-w-[14rem]" value={method} onChange={(e) => setMethod(e.target.value)} aria-label="Filter by method">
           <option value="">All methods</option>
+          <option value="range">Range across methods</option>
           {methods.map((m) => (
             <option key={m.id} value={m.id}>
               {m.name}
@@ -47,7 +56,7 @@ export function StudiesPage() {
           columns={[
             { accessorKey: 'title', header: 'Title', cell: (c) => <Link to={`/studies/${c.row.original.id}`} className="font-semibold text-trend hover:underline">{c.getValue()}</Link> },
             { id: 'series', header: 'Series', accessorFn: (s) => s.series.code },
-            { id: 'method', header: 'Method', accessorFn: (s) => nameOf(s.method) },
+            { id: 'method', header: 'Method', accessorFn: (s) => nameOf(s) },
             { id: 'vintage', header: 'Vintage', accessorFn: (s) => (s.vintage === 'latest' ? 'latest' : `pinned: ${s.vintage}`) },
             { id: 'owner', header: 'Owner', accessorFn: (s) => s.owner.name },
             { accessorKey: 'updatedAt', header: 'Changed', cell: (c) => formatDate(c.getValue(), true) },

@@ -13,6 +13,7 @@ import { useMethods, usePreview, useSaveStudy, useStudy, useStudyAction, type St
 import { CompareView } from './CompareView';
 import { DecompositionView } from './DecompositionView';
 import { ParamsEditor } from './ParamsEditor';
+import { RangeStudyView } from './RangeStudyView';
 import { RealtimeView } from './RealtimeView';
 import { ACCESS, allows } from '@schemas/access';
 
@@ -22,6 +23,7 @@ export function StudyPage() {
   const [params] = useSearchParams();
   if (id && study.isPending) return <Spinner />;
   if (id && study.error) return <ErrorNote error={study.error} />;
+  if (study.data?.kind === 'range') return <RangeStudyView key={id} study={study.data} />;
   return <Workspace key={id ?? 'new'} study={study.data} seriesId={Number(params.get('seriesId')) || undefined} />;
 }
 
