@@ -43,7 +43,7 @@ export interface RangeItem {
 
 /** POST /studies/range: each method's cycle on aligned periods, and per period the median, minimum and maximum across methods. */
 export interface RangeResult {
-  series: { id: number; code: string; title: string; unit: string; frequency: Frequency };
+  series: { id: number; code: string; title: string; unit: string; frequency: Frequency; source: string };
   vintage: number;
   asOf: string;
   transform: string;

@@ -1,6 +1,7 @@
 /** Boards and their panels: the bodies of the Boards routes and what they answer (shared with the client). */
 import { z } from 'zod';
 import type { Study, StudyResult } from './studies.js';
+import type { RangeResult } from './analyses.js';
 
 /** A title and notes, as boards, panels and exhibits take them. */
 export const titleSchema = z.string({ error: 'Give it a title.' }).trim().min(1, 'Give it a title.').max(200, 'A title has at most 200 characters.');
@@ -76,6 +77,8 @@ export interface PanelData {
   lines: { label: string; studyId: number; periods: string[]; values: (number | null)[]; vintage: number; methodLine: string }[];
   /** The single study's full result (kind "study"). */
   result?: StudyResult;
+  /** A range study's range across its methods (a panel of one range study; `lines` are its methods' cycles). */
+  range?: RangeResult;
   unit: string;
   /** Periods at the end that will be revised (the longest of the lines' two-sided estimates), shaded. */
   endOfSamplePeriods: number;

@@ -34,7 +34,8 @@ export const transitionSchema = z.object({
 export interface Snapshot {
   schema: 1;
   kind: 'study' | 'panel';
-  chartKind: 'cycle' | 'trend' | 'compare';
+  /** "range": a range study's range of gap estimates across methods (`lines` are the methods' cycles, `range` the band and median). */
+  chartKind: 'cycle' | 'trend' | 'compare' | 'range';
   text: { title: string; subtitle: string | null; units: string | null; sourceLine: string | null; notes: string | null };
   series: { id: number; code: string; title: string; unit: string; source: string }[];
   lines: { label: string; role: 'input' | 'trend' | 'cycle'; periods: string[]; values: (number | null)[] }[];
@@ -52,6 +53,8 @@ export interface Snapshot {
   publication?: { number: string | null; institution: string; sourceLine: string };
   /** The transform of a single study's data (trend charts show levels on the series' scale). */
   transform?: string;
+  /** A range study's median, lowest and highest estimate per period across its methods, on the lines' periods (chartKind "range"). */
+  range?: { periods: string[]; median: (number | null)[]; min: (number | null)[]; max: (number | null)[] };
 }
 
 /** One recorded state change of an exhibit. */

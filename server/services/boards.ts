@@ -9,9 +9,9 @@ import { badRequest, conflict, forbidden, notFound } from '../lib/errors.js';
 import type { PublicUser } from '../schemas/people.js';
 import type { Board, Panel, PanelBody, PanelData } from '../schemas/boards.js';
 export type { Board, Panel, PanelData };
-import type { StudyResult } from '../schemas/studies.js';
-import { computeSpec } from './studies/results.js';
-import { getStudy, singleMethodOnly } from './studies/studies.js';
+import type { Study, StudyResult } from '../schemas/studies.js';
+import { computeSpec, rangeStudyResult } from './studies/results.js';
+import { getStudy } from './studies/studies.js';
 import { transaction } from '../lib/retry.js';
 
 const iso = (d: Date | string) => new Date(d).toISOString();
@@ -86,9 +86,14 @@ export async function deleteBoard(db: Db, user: PublicUser, id: number) {
   await db('boards').where('id', id).delete();
 }
 
-async function checkStudies(db: Db, ids: number[]) {
+async function checkStudies(db: Db, ids: number[], compareBy?: string | null) {
   const studies = [];
-  for (const id of ids) studies.push(singleMethodOnly(await getStudy(db, id), 'A board panel'));
+  for (const id of ids) studies.push(await getStudy(db, id));
+  // A range study is a panel of its own: its chart is the range across its methods.
+  const ranged = studies.find((s) => s.kind === 'range');
+  if (ranged && (ids.length > 1 || compareBy === 'vintages')) {
+    throw badRequest('range_study_alone', `"${ranged.title}" is a range study: it makes a panel on its own (the range across its methods), not compared with other studies or vintages. Give it a panel of its own.`, [{ path: 'studyIds', message: 'A range study is alone in its panel.' }]);
+  }
   const frequencies = [...new Set(studies.map((s) => s.series.frequency))];
   if (frequencies.length > 1) {
     throw badRequest('mixed_frequencies', `These studies are on series of different frequencies (${studies.map((s) => `${s.series.code}: ${s.series.frequency}`).join(', ')}); a panel compares series of one frequency. Compare them on a common frequency in a study’s Compare view.`);
@@ -104,7 +109,7 @@ function lineLabel(results: StudyResult[], r: StudyResult) {
 }
 
 export async function addPanel(db: Db, user: PublicUser, boardId: number, body: PanelBody) {
-  await checkStudies(db, body.studyIds);
+  await checkStudies(db, body.studyIds, body.compareBy);
   return transaction(db, async (trx) => {
     await ownBoard(trx, user, boardId);
     await trx('boards').where('id', boardId).forUpdate().select('id');
@@ -135,9 +140,9 @@ async function panelOf(db: Db | Knex.Transaction, boardId: number, panelId: numb
 export async function updatePanel(db: Db, user: PublicUser, boardId: number, panelId: number, body: Partial<PanelBody> & { compareBy?: string | null; vintages?: number[] | null }) {
   await ownBoard(db, user, boardId);
   const row = await panelOf(db, boardId, panelId);
-  if (body.studyIds) await checkStudies(db, body.studyIds);
   const ids = body.studyIds ?? JSON.parse(row.study_ids);
   const compareBy = body.compareBy === undefined ? row.compare_by : body.compareBy;
+  if (body.studyIds || body.compareBy !== undefined) await checkStudies(db, ids, compareBy);
   if (ids.length > 1 && !compareBy) throw conflict('compare_by_required', 'Say what several studies are compared across (methods or series).');
   const change: Record<string, unknown> = { updated_at: new Date() };
   if (body.title !== undefined) change.title = body.title;
@@ -176,6 +181,7 @@ export async function reorderPanels(db: Db, user: PublicUser, boardId: number, p
 
 export async function panelData(db: Db, panel: Panel): Promise<PanelData> {
   const studies = await Promise.all(panel.studyIds.map((id) => getStudy(db, id)));
+  if (studies[0]?.kind === 'range') return rangePanel(db, panel, studies[0]);
   const lines: PanelData['lines'] = [];
   const results: StudyResult[] = [];
   if (panel.compareBy === 'vintages') {
@@ -194,21 +200,7 @@ export async function panelData(db: Db, panel: Panel): Promise<PanelData> {
     });
     if (new Set(results.map((r) => r.frequency)).size > 1) throw conflict('mixed_frequencies', 'This panel compares series of different frequencies; change its studies so that they share one frequency.');
   }
-  const freshness = [];
-  for (const s of studies) {
-    if (s.vintage !== 'latest' || s.asOf || panel.compareBy === 'vintages') continue;
-    const v = await db('vintages').where('series_id', s.seriesId).orderBy('number', 'desc').first();
-    if (v) {
-      freshness.push({
-        studyId: s.id,
-        code: s.series.code,
-        vintage: v.number,
-        asOf: new Date(v.as_of).toISOString().slice(0, 10),
-        loadedAt: iso(v.created_at),
-        newSincePanel: new Date(v.created_at).getTime() > new Date(panel.updatedAt).getTime(),
-      });
-    }
-  }
+  const freshness = await freshnessOf(db, panel, studies);
   const seriesSeen = new Map<number, PanelData['series'][number]>();
   for (const r of results) seriesSeen.set(r.series.id, { id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source });
   return {
@@ -239,4 +231,45 @@ export async function panelById(db: Db, user: PublicUser, panelId: number) {
   if (!row) throw notFound('The panel');
   await getBoard(db, user, row.board_id);
   return toPanel(row);
+}
+
+/** For studies that follow "latest": the newest vintage and whether it was loaded since the panel last changed. */
+async function freshnessOf(db: Db, panel: Panel, studies: Study[]) {
+  const freshness = [];
+  for (const s of studies) {
+    if (s.vintage !== 'latest' || s.asOf || panel.compareBy === 'vintages') continue;
+    const v = await db('vintages').where('series_id', s.seriesId).orderBy('number', 'desc').first();
+    if (v) {
+      freshness.push({
+        studyId: s.id,
+        code: s.series.code,
+        vintage: v.number,
+        asOf: new Date(v.as_of).toISOString().slice(0, 10),
+        loadedAt: iso(v.created_at),
+        newSincePanel: new Date(v.created_at).getTime() > new Date(panel.updatedAt).getTime(),
+      });
+    }
+  }
+  return freshness;
+}
+
+/** A panel of one range study: the range across its methods, its methods' cycles as the lines. */
+async function rangePanel(db: Db, panel: Panel, s: Study): Promise<PanelData> {
+  const r = await rangeStudyResult(db, undefined, s);
+  const series = { id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source };
+  return {
+    panelId: panel.id,
+    kind: panel.kind,
+    compareBy: panel.compareBy,
+    lines: r.items.map((it) => ({ label: it.name, studyId: s.id, periods: r.periods, values: it.cycle, vintage: r.vintage, methodLine: it.methodLine })),
+    range: r,
+    unit: r.unitOfCycle,
+    endOfSamplePeriods: 0,
+    cautions: r.cautions,
+    methodLines: r.items.map((it) => it.methodLine),
+    vintageStamps: [`${r.series.code}: data as of ${r.asOf}, vintage ${r.vintage}`],
+    series: [series],
+    studies: [s],
+    freshness: await freshnessOf(db, panel, [s]),
+  };
 }

@@ -108,13 +108,18 @@ export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx
   return buildExport(table, `study-${r.study.id}-${r.series.code}`, format);
 }
 
+const RANGE_COLUMNS = { median: 'median across methods', min: 'lowest across methods', max: 'highest across methods' };
+
 /** The data behind an exhibit (its snapshot, or a draft's live content); by id, or by public link. */
 export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; id: number } | { slug: string }, format: 'csv' | 'xlsx'): Promise<ExportFile> {
   const ex = 'slug' in who ? await publicExhibit(deps, who.slug) : await getExhibit(deps, who.user, who.id);
   const snap = ex.snapshot ?? ('live' in ex ? ex.live : null);
   const name = 'slug' in ex ? `exhibit-${ex.slug}` : `exhibit-${ex.id}-r${ex.revision}`;
   if (!snap) throw conflict('no_content', 'This exhibit has no data to download yet.');
-  const aligned = alignByPeriod(snap.lines);
+  // A range exhibit: each method's cycle, then the median, lowest and highest across the methods.
+  const r = snap.range;
+  const lines = r ? [...snap.lines, ...(['median', 'min', 'max'] as const).map((k) => ({ label: RANGE_COLUMNS[k], role: 'cycle' as const, periods: r.periods, values: r[k] }))] : snap.lines;
+  const aligned = alignByPeriod(lines);
   const transform = snap.transform ?? snap.studies[0]?.transform ?? 'none';
   const h = decompositionHeaders(transform, snap.series[0]?.unit ?? '', snap.text.units ?? '');
   const table: ExportTable = {
@@ -122,7 +127,7 @@ export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; 
     csvAbout: true,
     columns: [
       { header: 'period', kind: 'text' as const },
-      ...snap.lines.map((l) => computed(snap.chartKind === 'compare' ? `${l.label}, ${snap.text.units ?? ''}`.replace(/, $/, '') : h[l.role])),
+      ...lines.map((l) => computed(snap.chartKind === 'compare' || snap.chartKind === 'range' ? `${l.label}, ${snap.text.units ?? ''}`.replace(/, $/, '') : h[l.role])),
       { header: 'vintage', kind: 'text' as const },
       { header: 'method', kind: 'text' as const },
     ],

@@ -7,6 +7,7 @@
 import { contractionRanges } from '../chronology.js';
 import type { Snapshot } from '../exhibits.js';
 import { compareChart, cycleChart, trendChart } from './options.js';
+import { rangeChart } from './range.js';
 import { COLORS, FONT, HEADING_FONT } from './palette.js';
 
 /** The chart of an exhibit, drawn only from its snapshot (or a draft's live content). */
@@ -15,6 +16,10 @@ export function exhibitChart(s: Snapshot) {
   const periodsOf = s.chartKind === 'compare' ? [...new Set(s.lines.flatMap((l) => l.periods))].sort() : (line('cycle') ?? s.lines[0]).periods;
   const contractions = s.chronology ? { name: s.chronology.name, ranges: contractionRanges(periodsOf, s.chronology) } : undefined;
   const units = s.text.units ?? undefined;
+  if (s.chartKind === 'range' && s.range) {
+    // The legend names each method (the lines' labels), the band and the median.
+    return rangeChart({ periods: s.range.periods, unit: units, median: s.range.median, min: s.range.min, max: s.range.max, items: s.lines.map((l) => ({ name: l.label, values: l.values })) });
+  }
   if (s.chartKind === 'compare') {
     return compareChart({ zeroLine: true, unit: units, contractions, shadeLast: s.endOfSamplePeriods, lines: s.lines.map((l) => ({ name: l.label, periods: l.periods, values: l.values })) });
   }

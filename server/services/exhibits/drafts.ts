@@ -5,8 +5,8 @@ import { conflict, forbidden, notFound } from '../../lib/errors.js';
 import { audit } from '../audit.js';
 import { panelById, panelData } from '../boards.js';
 import { getChronology } from '../chronology.js';
-import { computeSpec } from '../studies/results.js';
-import { getStudy, singleMethodOnly } from '../studies/studies.js';
+import { computeSpec, rangeStudyResult } from '../studies/results.js';
+import { getStudy } from '../studies/studies.js';
 import { canSee, exhibitRow, getExhibit, type ExhibitDeps } from './read.js';
 import { transaction } from '../../lib/retry.js';
 
@@ -15,8 +15,8 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
   let units = body.units ?? null;
   let sourceLine = body.sourceLine ?? null;
   if (body.studyId) {
-    const s = singleMethodOnly(await getStudy(db, body.studyId), 'An exhibit');
-    const r = await computeSpec(db, s);
+    const s = await getStudy(db, body.studyId);
+    const r = s.kind === 'range' ? await rangeStudyResult(db, undefined, s) : await computeSpec(db, s);
     units ??= r.unitOfCycle;
     sourceLine ??= r.series.source;
   } else {

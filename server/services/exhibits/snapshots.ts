@@ -8,7 +8,8 @@ import { conflict, HttpError } from '../../lib/errors.js';
 import { sha256 } from '../../lib/secrets.js';
 import { version } from '../../lib/version.js';
 import type { PublicUser } from '../../schemas/people.js';
-import { CAUTION_LINE } from '../../schemas/cautions.js';
+import { CAUTION_LINE, RANGE_CAUTION } from '../../schemas/cautions.js';
+import type { RangeResult } from '../../schemas/analyses.js';
 import type { Snapshot } from '../../schemas/exhibits.js';
 import type { StudyResult } from '../../schemas/studies.js';
 import type { PanelData } from '../../schemas/boards.js';
@@ -16,8 +17,9 @@ import { sourceLine } from '../../schemas/charts/figure.js';
 import { panelById, panelData } from '../boards.js';
 import { chronologyStamp } from '../chronology.js';
 import { getSettings } from '../settings.js';
-import { computeSpec } from '../studies/results.js';
+import { computeSpec, rangeStudyResult } from '../studies/results.js';
 import { getStudy } from '../studies/studies.js';
+import type { Study } from '../../schemas/studies.js';
 async function vintageChecksum(db: Db, seriesId: number, number: number) {
   return (await db('vintages').where({ series_id: seriesId, number }).first('checksum'))?.checksum ?? '';
 }
@@ -49,8 +51,24 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
     methodLine: r.methodLine,
     vintageStamp: r.vintageStamp,
   });
+  // A range study: each method's cycle as a line named by the method, the band and the median, both cautions.
+  const ranged = async (kind: Snapshot['kind'], s: Study, r: RangeResult): Promise<Snapshot> => ({
+    ...common,
+    caution: `${CAUTION_LINE} ${RANGE_CAUTION}`,
+    kind,
+    chartKind: 'range',
+    series: [{ id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source }],
+    lines: r.items.map((it) => ({ label: it.name, role: 'cycle' as const, periods: r.periods, values: it.cycle })),
+    range: { periods: r.periods, median: r.median, min: r.min, max: r.max },
+    studies: [{ id: s.id, title: s.title, method: 'range', params: { methods: r.items.map((it) => ({ method: it.method, params: it.params })) }, transform: r.transform, vintage: r.vintage, asOf: r.asOf, vintageChecksum: await vintageChecksum(db, r.series.id, r.vintage), methodLine: r.items.map((it) => it.methodLine).join(' · ') }],
+    transform: r.transform,
+    endOfSamplePeriods: 0,
+    methodLine: `range across ${r.items.length} methods: ${r.items.map((it) => it.methodLine).join(' · ')}`,
+    vintageStamp: `data as of ${r.asOf}, vintage ${r.vintage}`,
+  });
   if (row.study_id) {
     const s = await getStudy(db, row.study_id);
+    if (s.kind === 'range') return ranged('study', s, await rangeStudyResult(db, undefined, row.vintage_pin ? { ...s, vintage: row.vintage_pin, asOf: null } : s));
     // An update of an exhibit whose study pins an older vintage draws on the newer one it was prepared for.
     const r = await computeSpec(db, row.vintage_pin ? { ...s, vintage: row.vintage_pin, asOf: null } : s);
     const studies = [{ id: s.id, title: s.title, method: r.method, params: r.params, transform: r.transform, vintage: r.vintage, asOf: r.asOf, vintageChecksum: await vintageChecksum(db, r.series.id, r.vintage), methodLine: r.methodLine }];
@@ -62,6 +80,7 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
     throw e;
   });
   const data: PanelData = await panelData(db, panel);
+  if (data.range) return ranged('panel', data.studies[0], data.range);
   const studies: Snapshot['studies'] = [];
   for (const l of data.lines) {
     const s = data.studies.find((x) => x.id === l.studyId)!;

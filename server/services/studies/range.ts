@@ -35,7 +35,7 @@ export async function rangeOfEstimates(db: Db, pool: AnalysisPool | undefined, b
   const aligned = alignByPeriod(answers.map((a) => ({ periods: a.periods ?? data.periods, values: a.cycle })));
   const range = rangeAcross(aligned.values.map(toNaN));
   return {
-    series: { id: data.series.id, code: data.series.code, title: data.series.title, unit: data.series.unit, frequency },
+    series: { id: data.series.id, code: data.series.code, title: data.series.title, unit: data.series.unit, frequency, source: data.series.source },
     vintage: data.vintage.number,
     asOf: data.vintage.asOf,
     transform: body.transform,

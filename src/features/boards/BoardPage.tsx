@@ -1,7 +1,8 @@
 import { useMemo, useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
+import { RANGE_CAUTION } from '@schemas/cautions';
 import { Chart } from '@/components/charts/Chart';
-import { compareChart, cycleChart, vintagesChart } from '@/components/charts/options';
+import { compareChart, cycleChart, rangeChart, vintagesChart } from '@/components/charts/options';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { useVintages } from '@/features/catalogue/api';
@@ -102,6 +103,10 @@ function PanelCard({
   const option = useMemo(() => {
     const d = data.data;
     if (!d) return null;
+    if (d.range) {
+      const r = d.range;
+      return rangeChart({ periods: r.periods, unit: r.unitOfCycle, median: r.median, min: r.min, max: r.max, items: r.items.map((it) => ({ name: it.name, values: it.cycle })) });
+    }
     if (d.kind === 'study' && d.result) {
       const r = d.result;
       return cycleChart({ periods: r.periods, cycle: r.cycle, unit: r.unitOfCycle, turningPoints: r.turningPoints, shadeLast: r.endOfSamplePeriods });
@@ -157,6 +162,7 @@ function PanelCard({
           ))}
           <p>{data.data.methodLines.join(' · ')}</p>
           {data.data.endOfSamplePeriods > 0 && <p className="text-alert" data-testid="panel-caution">{data.data.cautions[0]}</p>}
+          {data.data.range && <p className="text-alert" data-testid="panel-caution">{RANGE_CAUTION}</p>}
           {panel.compareBy === 'vintages' || !data.data.freshness.length ? <p>{data.data.vintageStamps.join(' · ')}</p> : null}
           {canDraft && (
             <Link className="text-trend underline" to={`/exhibits/new?panelId=${panel.id}&title=${encodeURIComponent(panel.title)}`}>
