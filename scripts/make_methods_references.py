@@ -9,7 +9,6 @@ Writes tests/fixtures/methods-references.json; every entry names what produced i
 data, public domain).
 """
 import csv
-import json
 import os
 import sys
 import warnings
@@ -19,6 +18,8 @@ import scipy
 import statsmodels
 from scipy.optimize import minimize, rosen
 from statsmodels.regression.linear_model import OLS
+
+from make_realtime_reference import write_fixture
 from statsmodels.tsa.ar_model import ar_select_order
 from statsmodels.tsa.filters.hp_filter import hpfilter
 from statsmodels.tsa.statespace.structural import UnobservedComponents
@@ -156,11 +157,7 @@ def main():
         'range': range_refs(),
         'bfgs': {'source': "scipy.optimize.minimize(rosen, [-1.2, 1], method='BFGS')", 'x': [float(v) for v in r.x], 'fun': float(r.fun)},
     }
-    path = os.path.join(ROOT, 'tests/fixtures/methods-references.json')
-    with open(path, 'w') as f:
-        json.dump(out, f, indent=1)
-        f.write('\n')
-    print('wrote', path)
+    write_fixture(out, 'methods-references.json')
 
 
 if __name__ == '__main__':

@@ -13,14 +13,12 @@ vintage cut at each quarter from the 24th on) against the final estimate, with t
 definitions as scripts/make_realtime_reference.py. Writes tests/fixtures/realtime-history.json.
 """
 import csv
-import json
 import os
 
 import numpy as np
 import statsmodels
-from statsmodels.tsa.filters.hp_filter import hpfilter
 
-from make_realtime_reference import LAMBDA, MINIMUM, ROOT, stats
+from make_realtime_reference import LAMBDA, ROOT, realtime_reference, write_fixture
 
 SOURCE = 'datasets/demo/EST_GDP_RT_history.csv'
 
@@ -38,29 +36,8 @@ def read_history(path):
 
 def main():
     vintages = read_history(os.path.join(ROOT, SOURCE))
-    cycles = [hpfilter(100 * np.log(v['values']), LAMBDA)[0] for v in vintages]
-    final_periods = vintages[-1]['periods']
-    final = dict(zip(final_periods, cycles[-1]))
-    real_time = [{'period': v['periods'][-1], 'value': float(c[-1]), 'final': float(final[v['periods'][-1]])} for v, c in zip(vintages, cycles)]
-    y = 100 * np.log(vintages[-1]['values'])
-    quasi = []
-    for t in range(MINIMUM, len(y) + 1):
-        c, _ = hpfilter(y[:t], LAMBDA)
-        quasi.append({'period': final_periods[t - 1], 'value': float(c[-1]), 'final': float(final[final_periods[t - 1]])})
-    out = {
-        'generator': {'script': 'scripts/make_realtime_history_reference.py', 'statsmodels': statsmodels.__version__, 'numpy': np.__version__, 'series': 'EST_GDP_RT (invented demo history, %d releases)' % len(vintages), 'source': SOURCE, 'lambda': LAMBDA, 'transform': 'log100'},
-        'realTime': real_time,
-        'quasiRealTime': quasi,
-        'statistics': {
-            'realTime': stats([p['value'] for p in real_time], [p['final'] for p in real_time]),
-            'quasiRealTime': stats([q['value'] for q in quasi], [q['final'] for q in quasi]),
-        },
-    }
-    path = os.path.join(ROOT, 'tests/fixtures/realtime-history.json')
-    with open(path, 'w') as f:
-        json.dump(out, f, indent=1)
-        f.write('\n')
-    print('wrote', path)
+    generator = {'script': 'scripts/make_realtime_history_reference.py', 'statsmodels': statsmodels.__version__, 'numpy': np.__version__, 'series': 'EST_GDP_RT (invented demo history, %d releases)' % len(vintages), 'source': SOURCE, 'lambda': LAMBDA, 'transform': 'log100'}
+    write_fixture({'generator': generator, **realtime_reference([(v['periods'], v['values']) for v in vintages])}, 'realtime-history.json')
 
 
 if __name__ == '__main__':

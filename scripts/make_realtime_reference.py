@@ -49,9 +49,9 @@ def stats(rt, final):
     }
 
 
-def main():
-    files = sorted(glob.glob(os.path.join(ROOT, 'datasets/demo/EST_GDP_REAL_v*.csv')), key=lambda p: int(re.search(r'_v(\d+)', p).group(1)))
-    vintages = [read(p) for p in files]
+def realtime_reference(vintages):
+    """Real-time end points, quasi-real-time estimates and their statistics for `vintages`, a list
+    of (periods, values) in release order: HP (λ = LAMBDA) on 100 × log of each vintage."""
     cycles = [hpfilter(100 * np.log(y), LAMBDA)[0] for _, y in vintages]
     final_periods, final_y = vintages[-1]
     final = dict(zip(final_periods, cycles[-1]))
@@ -61,8 +61,7 @@ def main():
     for t in range(MINIMUM, len(y) + 1):
         c, _ = hpfilter(y[:t], LAMBDA)
         quasi.append({'period': final_periods[t - 1], 'value': float(c[-1]), 'final': float(final[final_periods[t - 1]])})
-    out = {
-        'generator': {'script': 'scripts/make_realtime_reference.py', 'statsmodels': statsmodels.__version__, 'numpy': np.__version__, 'series': 'EST_GDP_REAL (invented demo data)', 'lambda': LAMBDA, 'transform': 'log100'},
+    return {
         'realTime': real_time,
         'quasiRealTime': quasi,
         'statistics': {
@@ -70,11 +69,21 @@ def main():
             'quasiRealTime': stats([q['value'] for q in quasi], [q['final'] for q in quasi]),
         },
     }
-    path = os.path.join(ROOT, 'tests/fixtures/realtime-demo.json')
+
+
+def write_fixture(out, name):
+    path = os.path.join(ROOT, 'tests/fixtures', name)
     with open(path, 'w') as f:
         json.dump(out, f, indent=1)
         f.write('\n')
     print('wrote', path)
+
+
+def main():
+    files = sorted(glob.glob(os.path.join(ROOT, 'datasets/demo/EST_GDP_REAL_v*.csv')), key=lambda p: int(re.search(r'_v(\d+)', p).group(1)))
+    vintages = [read(p) for p in files]
+    generator = {'script': 'scripts/make_realtime_reference.py', 'statsmodels': statsmodels.__version__, 'numpy': np.__version__, 'series': 'EST_GDP_REAL (invented demo data)', 'lambda': LAMBDA, 'transform': 'log100'}
+    write_fixture({'generator': generator, **realtime_reference(vintages)}, 'realtime-demo.json')
 
 
 if __name__ == '__main__':
