@@ -18,6 +18,8 @@ const exhibitText = {
   number: z.string().trim().max(40, 'A number has at most 40 characters.').optional(),
   /** The reference chronology whose contractions the chart shades (null: none). */
   chronologyId: z.number().int().positive().nullable().optional(),
+  /** Draw the band of past revisions around the latest end-of-sample estimates (a single-method study's cycle chart), with its note. */
+  revisionBand: z.boolean({ error: 'revisionBand is true or false.' }).optional(),
 };
 export const createExhibitSchema = z
   .object({ studyId: z.number().int().positive().optional(), panelId: z.number().int().positive().optional(), ...exhibitText })
@@ -55,6 +57,8 @@ export interface Snapshot {
   transform?: string;
   /** A range study's median, lowest and highest estimate per period across its methods, on the lines' periods (chartKind "range"). */
   range?: { periods: string[]; median: (number | null)[]; min: (number | null)[]; max: (number | null)[] };
+  /** The band of past revisions at the latest estimate's last periods, by distance from the end (the exhibit option; not a forecast). */
+  revisionBand?: { period: string; distance: number; value: number; lower: number | null; upper: number | null }[];
 }
 
 /** One recorded state change of an exhibit. */
@@ -79,6 +83,8 @@ export interface ExhibitSummary {
   chartKind: 'cycle' | 'trend';
   number: string | null;
   chronologyId: number | null;
+  /** The band of past revisions is drawn (an exhibit option). */
+  revisionBand: boolean;
   status: ExhibitState;
   revision: number;
   studyId: number | null;

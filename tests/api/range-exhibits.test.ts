@@ -5,7 +5,7 @@
  * review diff shows a change of methods; the data download has the methods and the range.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { CAUTION_LINE, RANGE_CAUTION } from '../../server/schemas/cautions.js';
+import { CAUTION_LINE, RANGE_CAUTION, REVISION_BAND_CAUTION } from '../../server/schemas/cautions.js';
 import { exhibitChart } from '../../server/schemas/charts/figure.js';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { signedIn } from '../helpers/session.js';
@@ -105,5 +105,40 @@ describe('range exhibits', () => {
     expect(diff.studies.map((x: { what: string }) => x.what)).toEqual(expect.arrayContaining(['params', 'vintage']));
     const hp = diff.data.find((x: { line: string }) => x.line.startsWith('Hodrick–Prescott'));
     expect(hp.changedPeriods).toBeGreaterThan(0);
+  });
+});
+
+describe('the band of past revisions as an exhibit option', () => {
+  it('draws the band the real-time analysis gives around the end of the cycle, with its note; refused where it does not fit, storing nothing', async () => {
+    const e = (await author.post('/api/v1/exhibits').send({ studyId: hpId, title: 'The gap and its past revisions', revisionBand: true }).expect(201)).body;
+    expect(e.revisionBand).toBe(true);
+    const realtime = (await author.post(`/api/v1/studies/${hpId}/realtime`).expect(200)).body;
+    expect(realtime.revisionBand.length).toBe(8);
+    expect(e.live.revisionBand).toEqual(realtime.revisionBand);
+    // The band sits around the exhibit's own last estimates.
+    const cycle = e.live.lines.find((l: { role: string }) => l.role === 'cycle');
+    for (const b of e.live.revisionBand) expect(b.value).toBe(cycle.values[cycle.periods.indexOf(b.period)]);
+    expect(e.live.caution).toBe(`${CAUTION_LINE} ${REVISION_BAND_CAUTION}`);
+    const chart = exhibitChart(e.live) as { legend: { data: string[] }; series: { name: string }[] };
+    expect(chart.legend.data).toEqual(['band of past revisions (not a forecast)']);
+    expect(chart.series.map((x) => x.name)).toContain('band of past revisions (not a forecast): upper edge');
+
+    // Frozen with the exhibit; turned off, the draft's live content has no band and the plain caution.
+    const submitted = (await author.post(`/api/v1/exhibits/${e.id}/transitions`).send({ to: 'in_review' }).expect(200)).body;
+    expect(submitted.snapshot.revisionBand).toEqual(realtime.revisionBand);
+    const plain = (await author.post('/api/v1/exhibits').send({ studyId: hpId, title: 'No band' }).expect(201)).body;
+    expect(plain.live.revisionBand).toBeUndefined();
+    expect(plain.live.caution).toBe(CAUTION_LINE);
+    const on = (await author.patch(`/api/v1/exhibits/${plain.id}`).send({ revisionBand: true }).expect(200)).body;
+    expect(on.live.revisionBand).toEqual(realtime.revisionBand);
+    const off = (await author.patch(`/api/v1/exhibits/${plain.id}`).send({ revisionBand: false }).expect(200)).body;
+    expect(off.live.revisionBand).toBeUndefined();
+
+    const before = Number((await t.db('exhibits').count({ n: '*' }))[0].n);
+    expect((await author.post('/api/v1/exhibits').send({ studyId: rangeId, title: 'x', revisionBand: true }).expect(400)).body.error.code).toBe('revision_band_study_only');
+    expect((await author.post('/api/v1/exhibits').send({ studyId: hpId, title: 'x', chartKind: 'trend', revisionBand: true }).expect(400)).body.error.code).toBe('revision_band_cycle_only');
+    expect((await author.patch(`/api/v1/exhibits/${plain.id}`).send({ revisionBand: true, chartKind: 'trend' }).expect(400)).body.error.message).toMatch(/cycle chart/);
+    expect(Number((await t.db('exhibits').count({ n: '*' }))[0].n)).toBe(before);
+    expect((await author.get(`/api/v1/exhibits/${plain.id}`).expect(200)).body).toMatchObject({ revisionBand: false, chartKind: 'cycle' });
   });
 });

@@ -7,7 +7,7 @@
 import { contractionRanges } from '../chronology.js';
 import type { Snapshot } from '../exhibits.js';
 import { compareChart, cycleChart, trendChart } from './options.js';
-import { rangeChart } from './range.js';
+import { bandSeries, rangeChart } from './range.js';
 import { COLORS, FONT, HEADING_FONT } from './palette.js';
 
 /** The chart of an exhibit, drawn only from its snapshot (or a draft's live content). */
@@ -29,7 +29,7 @@ export function exhibitChart(s: Snapshot) {
     return trendChart({ periods: cycle.periods, input: line('input')!.values, trend: line('trend')!.values, transform, unit: transform && transform !== 'none' ? s.series[0]?.unit : units, shadeLast: s.endOfSamplePeriods, contractions });
   }
   const index = new Map(cycle.periods.map((p, i) => [p, i]));
-  return cycleChart({
+  const chart = cycleChart({
     periods: cycle.periods,
     cycle: cycle.values,
     unit: units,
@@ -37,6 +37,20 @@ export function exhibitChart(s: Snapshot) {
     contractions,
     turningPoints: (s.turningPoints ?? []).filter((t) => index.has(t.period)).map((t) => ({ index: index.get(t.period)!, type: t.type })),
   });
+  return s.revisionBand?.length ? withRevisionBand(chart, cycle.periods, s.revisionBand) : chart;
+}
+
+/**
+ * The cycle chart with the band of past revisions at its last periods (the exhibit option), drawn
+ * as the study page draws it (charts/range.ts) and named in the legend; its note is in the caution.
+ */
+function withRevisionBand(chart: ReturnType<typeof cycleChart>, periods: string[], band: NonNullable<Snapshot['revisionBand']>) {
+  const at = new Map(band.map((b) => [b.period, b]));
+  const lower = periods.map((p) => at.get(p)?.lower ?? null);
+  const upper = periods.map((p) => at.get(p)?.upper ?? null);
+  const name = 'band of past revisions (not a forecast)';
+  const c = chart as Record<string, any>;
+  return { ...c, legend: { ...(c.legend ?? {}), show: true, data: [name] }, series: [...bandSeries(name, lower, upper, COLORS.alert, 'rgba(162,59,42,0.14)'), ...c.series] };
 }
 
 /** The default wording of the source line; `{sources}` stands for the exhibit's sources. */

@@ -1,7 +1,9 @@
 /** Drafting exhibits: created from a study or a board panel, edited by the author while a draft or returned. */
 import type { PublicUser } from '../../schemas/people.js';
 import type { CreateExhibitBody, UpdateExhibitBody } from '../../schemas/exhibits.js';
-import { conflict, forbidden, notFound } from '../../lib/errors.js';
+import { badRequest, conflict, forbidden, notFound } from '../../lib/errors.js';
+import type { Knex } from 'knex';
+import type { Db } from '../../db.js';
 import { audit } from '../audit.js';
 import { panelById, panelData } from '../boards.js';
 import { getChronology } from '../chronology.js';
@@ -26,6 +28,7 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
     sourceLine ??= [...new Set(data.series.map((s) => s.source))].join('; ');
   }
   if (body.chronologyId) await getChronology(db, body.chronologyId);
+  await assertBandFits(db, body.studyId ?? null, !!body.revisionBand, body.chartKind ?? 'cycle');
   const id = await transaction(db, async (trx) => {
     const [newId] = await trx('exhibits').insert({
       author_id: user.id,
@@ -39,6 +42,7 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
       chart_kind: body.chartKind ?? 'cycle',
       number_label: body.number || null,
       chronology_id: body.chronologyId ?? null,
+      revision_band: !!body.revisionBand,
       status: 'draft',
     });
     await trx('exhibit_events').insert({ exhibit_id: newId, actor_id: user.id, from_status: null, to_status: 'draft', comment: null, revision: 0 });
@@ -46,6 +50,16 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
     return newId;
   });
   return getExhibit(deps, user, id);
+}
+
+/** The band of past revisions belongs on the cycle chart of one study of one method; refused otherwise, with what to do. */
+async function assertBandFits(db: Db | Knex.Transaction, studyId: number | null, band: boolean, chartKind: string) {
+  if (!band) return;
+  const what = 'The band of past revisions';
+  if (!studyId) throw badRequest('revision_band_study_only', `${what} is drawn on an exhibit drafted from one study of one method, not from a panel.`, [{ path: 'revisionBand', message: 'Only for an exhibit from one study.' }]);
+  const s = await getStudy(db as Db, studyId);
+  if (s.kind === 'range') throw badRequest('revision_band_study_only', `${what} is drawn around one method's estimates; "${s.title}" is a range study across methods.`, [{ path: 'revisionBand', message: 'Not for a range study.' }]);
+  if (chartKind !== 'cycle') throw badRequest('revision_band_cycle_only', `${what} is drawn on the cycle chart: choose chartKind "cycle" to show it.`, [{ path: 'revisionBand', message: 'Only on the cycle chart.' }]);
 }
 
 export async function updateExhibit(deps: ExhibitDeps, user: PublicUser, id: number, body: UpdateExhibitBody) {
@@ -67,6 +81,8 @@ export async function updateExhibit(deps: ExhibitDeps, user: PublicUser, id: num
     if (body.chartKind !== undefined) change.chart_kind = body.chartKind;
     if (body.number !== undefined) change.number_label = body.number || null;
     if (body.chronologyId !== undefined) change.chronology_id = body.chronologyId;
+    if (body.revisionBand !== undefined) change.revision_band = body.revisionBand;
+    await assertBandFits(trx, row.study_id, body.revisionBand ?? !!row.revision_band, body.chartKind ?? row.chart_kind);
     await trx('exhibits').where('id', id).update(change);
   });
   return getExhibit(deps, user, id);

@@ -76,6 +76,7 @@ export function summary(row: Record<string, any>): ExhibitSummary {
     chartKind: row.chart_kind,
     number: row.number_label ?? null,
     chronologyId: row.chronology_id ?? null,
+    revisionBand: !!row.revision_band,
     status: row.status as ExhibitState,
     revision: row.revision,
     studyId: row.study_id,

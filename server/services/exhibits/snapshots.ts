@@ -8,7 +8,8 @@ import { conflict, HttpError } from '../../lib/errors.js';
 import { sha256 } from '../../lib/secrets.js';
 import { version } from '../../lib/version.js';
 import type { PublicUser } from '../../schemas/people.js';
-import { CAUTION_LINE, RANGE_CAUTION } from '../../schemas/cautions.js';
+import { CAUTION_LINE, RANGE_CAUTION, REVISION_BAND_CAUTION } from '../../schemas/cautions.js';
+import { studyRevisionBand } from '../studies/revision-band.js';
 import type { RangeResult } from '../../schemas/analyses.js';
 import type { Snapshot } from '../../schemas/exhibits.js';
 import type { StudyResult } from '../../schemas/studies.js';
@@ -72,7 +73,10 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
     // An update of an exhibit whose study pins an older vintage draws on the newer one it was prepared for.
     const r = await computeSpec(db, row.vintage_pin ? { ...s, vintage: row.vintage_pin, asOf: null } : s);
     const studies = [{ id: s.id, title: s.title, method: r.method, params: r.params, transform: r.transform, vintage: r.vintage, asOf: r.asOf, vintageChecksum: await vintageChecksum(db, r.series.id, r.vintage), methodLine: r.methodLine }];
-    return single('study', r, studies, [{ id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source }]);
+    const snap = single('study', r, studies, [{ id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source }]);
+    // The exhibit option: the band of past revisions around the end of this estimate, with its note.
+    if (row.revision_band && snap.chartKind === 'cycle') return { ...snap, revisionBand: await studyRevisionBand(db, undefined, s, r.vintage), caution: `${CAUTION_LINE} ${REVISION_BAND_CAUTION}` };
+    return snap;
   }
   if (!row.panel_id) throw conflict('exhibit_source_gone', 'The study or panel this exhibit was drafted from no longer exists.');
   const panel = await panelById(db, user, row.panel_id).catch((e) => {

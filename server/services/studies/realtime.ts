@@ -1,20 +1,17 @@
 /** The real-time revision analysis of a study, across the vintages of its series. */
 import { methodLine, reliability } from '../../analysis/index.js';
-import { revisionBand, revisionSpread } from '../../analysis/realtime.js';
 import type { Db } from '../../db.js';
-import { conflict, HttpError } from '../../lib/errors.js';
 import type { Progress } from '../../lib/stream.js';
-import type { BatchSummaryItem, DecomposeJson } from '../../schemas/decompose.js';
+import type { BatchSummaryItem } from '../../schemas/decompose.js';
 import { PERIOD_WORD, PERIODS_PER_YEAR } from '../../schemas/frequency.js';
 import type { RealtimeResult } from '../../schemas/studies.js';
 import type { BatchItem, FailedItem } from '../../workers/batch-types.js';
 import type { AnalysisPool } from '../../workers/pool.js';
-import { readStoredValues, type SeriesValues } from '../catalogue/stored-values.js';
-import { listVintages } from '../catalogue/vintages.js';
 import { runBatch } from '../decompose.js';
-import { finiteOrNull, finiteRecord } from '../../lib/numbers.js';
+import { finiteRecord } from '../../lib/numbers.js';
 import { cycleUnit } from './results.js';
 import { getStudy, singleMethodOnly } from './studies.js';
+import { bandFromFan, studyVintages, vintageFan } from './revision-band.js';
 
 /**
  * Applies the study's method to every vintage of its series and compares the real-time
@@ -25,26 +22,12 @@ import { getStudy, singleMethodOnly } from './studies.js';
  */
 export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, id: number, onProgress?: Progress): Promise<RealtimeResult> {
   const s = singleMethodOnly(await getStudy(db, id), 'The real-time analysis');
-  const vintages = (await listVintages(db, s.seriesId)).sort((a, b) => a.number - b.number);
-  if (vintages.length < 2) throw conflict('too_few_vintages', 'The real-time analysis needs at least two vintages of the series.');
-  // Every vintage in one read (a handful of queries, cached by vintage), not one read each.
-  const found = await readStoredValues(db, vintages.map((v) => ({ seriesId: s.seriesId, vintage: v.number })));
-  const datas: SeriesValues[] = vintages.map((v) => {
-    const d = found.get(`${s.seriesId}@${v.number}`)!;
-    if (d instanceof HttpError) throw d;
-    return d;
-  });
-  const latest = datas[datas.length - 1];
-  const freq = latest.series.frequency;
-  const item = (d: (typeof datas)[number], values: (number | null)[], id: string): BatchItem => ({ id, frequency: freq, start: d.start ?? undefined, values, transform: s.transform, method: s.method, params: s.params });
+  const { vintages, datas, latest, freq, item } = await studyVintages(db, s, 'The real-time analysis');
 
   // (a, b) Every vintage's whole gap: the fan, and its end point.
   onProgress?.('vintages', 0, vintages.length);
-  const fanStrings = await runBatch(datas.map((d, k) => item(d, d.values, String(vintages[k].number))), 'full', pool);
+  const fan = await vintageFan(datas, vintages, item, pool);
   onProgress?.('vintages', vintages.length, vintages.length);
-  const fan = fanStrings.map((j) => JSON.parse(j) as DecomposeJson & FailedItem);
-  const failed = fan.find((f) => f.error);
-  if (failed) throw new HttpError(400, failed.error.code, `Vintage ${failed.id}: ${failed.error.message}`);
   const final = fan[fan.length - 1];
   const finalAt = new Map<string, number | null>(latest.periods.map((p, i) => [p, final.cycle[i]]));
   const realTime = fan.map((f, k) => {
@@ -80,10 +63,6 @@ export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, i
     return finiteRecord(reliability(arr(a), arr(b)));
   };
   const quasiAt = new Map(quasi.map((q) => [q.period, q.value]));
-  // The band of past revisions by distance from the end (analysis/realtime.ts): earlier vintages against the final one.
-  const nan = (xs: (number | null)[]) => Float64Array.from(xs, (v) => (v === null ? NaN : v));
-  const finalLine = { periods: latest.periods, cycle: nan(final.cycle) };
-  const spread = revisionSpread(fan.slice(0, -1).map((f, k) => ({ periods: datas[k].periods, cycle: nan(f.cycle) })), finalLine, 2 * ppy);
   const rtPoints = realTime.filter((p) => p.period !== null);
   return {
     study: { id: s.id, title: s.title, method: s.method, params: s.params, transform: s.transform },
@@ -106,6 +85,7 @@ export async function realtimeAnalysis(db: Db, pool: AnalysisPool | undefined, i
         ? `Only ${rtPoints.length} vintages give a real-time end point, so the real-time statistics rest on few periods; the quasi-real-time statistics use ${quasi.length}.`
         : null,
     word: PERIOD_WORD[freq][1],
-    revisionBand: revisionBand(finalLine, spread).map((b) => ({ ...b, lower: finiteOrNull(b.lower), upper: finiteOrNull(b.upper) })),
+    // The band of past revisions by distance from the end: earlier vintages against the final one.
+    revisionBand: bandFromFan(fan, datas, latest, 2 * ppy),
   };
 }

@@ -39,12 +39,15 @@ const textSchema = z.object({
   chartKind: z.enum(['cycle', 'trend']),
   number: z.string().max(40).optional(),
   chronologyId: z.string().optional(),
+  revisionBand: z.boolean(),
 });
 
 function TextForm({ exhibit }: { exhibit: Exhibit }) {
   const { update } = useExhibitMutations(exhibit.id);
   const chronologies = useChronologies();
-  const values = (e: Exhibit) => ({ title: e.title, subtitle: e.subtitle ?? '', units: e.units ?? '', sourceLine: e.sourceLine ?? '', notes: e.notes ?? '', chartKind: e.chartKind, number: e.number ?? '', chronologyId: e.chronologyId ? String(e.chronologyId) : '' });
+  const values = (e: Exhibit) => ({ title: e.title, subtitle: e.subtitle ?? '', units: e.units ?? '', sourceLine: e.sourceLine ?? '', notes: e.notes ?? '', chartKind: e.chartKind, number: e.number ?? '', chronologyId: e.chronologyId ? String(e.chronologyId) : '', revisionBand: e.revisionBand });
+  // The band of past revisions goes on the cycle chart of an exhibit from one study of one method.
+  const bandFits = !!exhibit.studyId && exhibit.live?.chartKind !== 'range';
   const form = useForm<z.infer<typeof textSchema>>({ resolver: zodResolver(textSchema), defaultValues: values(exhibit) });
   return (
     <form
@@ -65,7 +68,7 @@ function TextForm({ exhibit }: { exhibit: Exhibit }) {
           <input id="ex-units" className="field" {...form.register('units')} />
         </Field>
         <Field label="Chart" htmlFor="ex-kind">
-          <select id="ex-kind" className="field" disabled={exhibit.live?.chartKind === 'compare'} {...form.register('chartKind')}>
+          <select id="ex-kind" className="field" disabled={exhibit.live?.chartKind === 'compare' || exhibit.live?.chartKind === 'range'} {...form.register('chartKind')}>
             <option value="cycle">the cycle (gap)</option>
             <option value="trend">the series and its trend</option>
           </select>
@@ -86,6 +89,14 @@ function TextForm({ exhibit }: { exhibit: Exhibit }) {
           </select>
         </Field>
       </div>
+      {bandFits && (
+        <div className="text-sm">
+          <label className="flex items-center gap-2">
+            <input type="checkbox" {...form.register('revisionBand')} /> Draw the band of past revisions at the end of the cycle
+          </label>
+          <p className="text-xs text-ink-faint">How far earlier end-of-sample estimates were revised at each distance from the end, from the series’ vintages: a record of past revisions, not a forecast. Its note is printed under the chart. Cycle chart only.</p>
+        </div>
+      )}
       <Field label="Sources" htmlFor="ex-source">
         <input id="ex-source" className="field" {...form.register('sourceLine')} />
       </Field>
