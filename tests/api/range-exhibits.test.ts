@@ -85,6 +85,7 @@ describe('range exhibits', () => {
     expect(csv).toContain('not a forecast');
     const pdf = await editor.get(`/api/v1/exhibits/${e.id}/pdf`).buffer(true).expect(200);
     expect(pdf.headers['content-type']).toMatch(/pdf/);
+    if (process.env.RANGE_PDF_OUT) (await import('node:fs')).writeFileSync(process.env.RANGE_PDF_OUT, pdf.body);
 
     // Frozen: a new release changes the study's range but not the snapshot.
     const obs = (await steward.get(`/api/v1/series/${gdpId}/vintages/latest/observations`).expect(200)).body;
@@ -119,8 +120,8 @@ describe('the band of past revisions as an exhibit option', () => {
     const cycle = e.live.lines.find((l: { role: string }) => l.role === 'cycle');
     for (const b of e.live.revisionBand) expect(b.value).toBe(cycle.values[cycle.periods.indexOf(b.period)]);
     expect(e.live.caution).toBe(`${CAUTION_LINE} ${REVISION_BAND_CAUTION}`);
-    const chart = exhibitChart(e.live) as { legend: { data: string[] }; series: { name: string }[] };
-    expect(chart.legend.data).toEqual(['band of past revisions (not a forecast)']);
+    const chart = exhibitChart(e.live) as { legend: { data: { name: string }[] }; series: { name: string }[] };
+    expect(chart.legend.data.map((d) => d.name)).toEqual(['band of past revisions (not a forecast)']);
     expect(chart.series.map((x) => x.name)).toContain('band of past revisions (not a forecast): upper edge');
 
     // Frozen with the exhibit; turned off, the draft's live content has no band and the plain caution.

@@ -17,7 +17,7 @@ import { signedIn } from '../helpers/session.js';
 let t: TestServer;
 let browser: BrowserSession;
 let suite: Suite | undefined;
-const ids = { series: 0, study: 0, board: 0, published: 0, inReview: 0, draft: 0, slug: '' };
+const ids = { series: 0, study: 0, rangeStudy: 0, rangeDraft: 0, board: 0, published: 0, inReview: 0, draft: 0, slug: '' };
 
 beforeAll(async () => {
   ({ t, browser } = suite = await openSuite());
@@ -37,6 +37,10 @@ beforeAll(async () => {
   await economist.post(`/api/v1/exhibits/${seededDraft}/transitions`).send({ to: 'in_review' }).expect(200);
   ids.inReview = seededDraft;
   ids.draft = (await economist.post('/api/v1/exhibits').send({ studyId: ids.study, title: 'A draft to check' }).expect(201)).body.id;
+  // A range study (issue 13) and a range exhibit drafted from it, with the band of past revisions on the first draft.
+  ids.rangeStudy = (await economist.post('/api/v1/studies').send({ kind: 'range', title: 'A range to check', seriesId: ids.series, transform: 'log100', methods: [{ method: 'hp' }, { method: 'hamilton' }, { method: 'bn-filter' }] }).expect(201)).body.id;
+  ids.rangeDraft = (await economist.post('/api/v1/exhibits').send({ studyId: ids.rangeStudy, title: 'A range exhibit to check' }).expect(201)).body.id;
+  await economist.patch(`/api/v1/exhibits/${ids.draft}`).send({ revisionBand: true }).expect(200);
   await admin.put('/api/v1/settings').send({ publicExhibitLinks: true }).expect(200);
   ids.slug = (await t.db('exhibits').where('id', ids.published).first()).public_slug;
 });
@@ -52,10 +56,10 @@ function addresses(path: string, role: Role): string[] {
     '/catalogue/:id': () => [`/catalogue/${ids.series}`],
     '/catalogue/:id/edit': () => [`/catalogue/${ids.series}/edit`],
     '/studies/new': () => [`/studies/new?seriesId=${ids.series}`],
-    '/studies/:id': () => [`/studies/${ids.study}`],
+    '/studies/:id': () => [`/studies/${ids.study}`, `/studies/${ids.rangeStudy}`],
     '/boards/:id': () => [`/boards/${ids.board}`],
     '/exhibits/new': () => [`/exhibits/new?studyId=${ids.study}`],
-    '/exhibits/:id': () => [`/exhibits/${ids.published}`, ...(role === 'economist' ? [`/exhibits/${ids.draft}`] : []), ...(role === 'editor' ? [`/exhibits/${ids.inReview}`] : [])],
+    '/exhibits/:id': () => [`/exhibits/${ids.published}`, ...(role === 'economist' ? [`/exhibits/${ids.draft}`, `/exhibits/${ids.rangeDraft}`] : []), ...(role === 'editor' ? [`/exhibits/${ids.inReview}`] : [])],
   };
   const make = concrete[path] ?? (path.includes(':') ? undefined : () => [path]);
   if (!make) throw new Error(`The accessibility test has no address for the page ${path}: add one to addresses() in ${import.meta.url}`);

@@ -50,7 +50,7 @@ function withRevisionBand(chart: ReturnType<typeof cycleChart>, periods: string[
   const upper = periods.map((p) => at.get(p)?.upper ?? null);
   const name = 'band of past revisions (not a forecast)';
   const c = chart as Record<string, any>;
-  return { ...c, legend: { ...(c.legend ?? {}), show: true, data: [name] }, series: [...bandSeries(name, lower, upper, COLORS.alert, 'rgba(162,59,42,0.14)'), ...c.series] };
+  return { ...c, legend: { ...(c.legend ?? {}), show: true, data: [{ name, icon: 'roundRect', itemStyle: { color: 'rgba(162,59,42,0.35)' } }] }, series: [...bandSeries(name, lower, upper, COLORS.alert, 'rgba(162,59,42,0.14)'), ...c.series] };
 }
 
 /** The default wording of the source line; `{sources}` stands for the exhibit's sources. */
