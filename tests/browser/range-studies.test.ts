@@ -1,7 +1,7 @@
 /**
  * A range study in Chromium (issue 13): an economist shows the range across methods on the Range
  * page, saves it as a study, reads it on the study page (chart, per-method table, caution), and
- * drafts an exhibit from it whose figure names the methods and says that a range is not a
+ * changes its methods, and drafts an exhibit from it whose figure names the methods and says that a range is not a
  * forecast; at 1440 and 390 px. Screenshots go to the temporary directory.
  */
 import os from 'node:os';
@@ -56,6 +56,13 @@ describe('range studies', () => {
     await page.screenshot({ path: shot('tg-range-study-390.png'), fullPage: true });
     await page.setViewportSize({ width: 1440, height: 1000 });
 
+    // The owner drops a method: the range is recomputed without it.
+    const form = page.getByRole('form', { name: 'Methods of the range' });
+    await form.getByRole('checkbox', { name: 'Averaged Hamilton filter' }).uncheck();
+    await form.getByRole('button', { name: 'Save the methods' }).click();
+    await expect.poll(() => page.getByTestId('range-methods').innerText(), { timeout: 30_000 }).not.toContain('Averaged Hamilton filter');
+    expect(JSON.parse((await t.db('studies').where('id', studyId).first()).methods).map((m: { method: string }) => m.method).sort()).toEqual(['bn-filter', 'hamilton', 'hp', 'hp-forecast']);
+
     // A range exhibit drafted from it: the figure's legend and text alternative name the methods; both cautions.
     await page.getByRole('link', { name: 'Draft an exhibit' }).click();
     await page.getByRole('button', { name: 'Draft the exhibit' }).click();
@@ -66,7 +73,7 @@ describe('range studies', () => {
     const table = await figure.locator('table').first().innerText();
     for (const name of ['range across methods: lower edge', 'range across methods: upper edge', 'median', 'Hodrick–Prescott', 'Beveridge–Nelson filter']) expect(table).toContain(name);
     const text = await figure.innerText();
-    expect(text).toMatch(/range across 5 methods/);
+    expect(text).toMatch(/range across 4 methods/);
     expect(text).toMatch(/it is not a forecast and not a confidence interval/);
     expect(text).toMatch(/end-of-sample estimates are revised/);
     await page.screenshot({ path: shot('tg-range-exhibit-1440.png'), fullPage: true });

@@ -1,7 +1,7 @@
 /**
  * The study page of a range study: the range of gap estimates across its methods (chart, caution,
  * per-method table), with the same actions as a study of one method where they apply (draft an
- * exhibit, duplicate, delete). Its methods are changed through PATCH /studies/:id (methods).
+ * exhibit, duplicate, delete); its owner changes its methods (RangeMethodsForm).
  */
 import { useQuery } from '@tanstack/react-query';
 import { Link, useNavigate } from 'react-router-dom';
@@ -12,6 +12,7 @@ import { useMe } from '@/features/auth/api';
 import { RangeResultView } from '@/features/analyses/RangeResultView';
 import { api } from '@/lib/api';
 import { useStudyAction, type Study } from './api';
+import { RangeMethodsForm } from './RangeMethodsForm';
 
 export function RangeStudyView({ study }: { study: Study }) {
   const me = useMe();
@@ -51,6 +52,11 @@ export function RangeStudyView({ study }: { study: Study }) {
       {study.notes && <p className="mb-3 whitespace-pre-line text-sm">{study.notes}</p>}
       {result.isPending && <Progress value={null} label="Decomposing with each method" />}
       {result.data && <RangeResultView r={result.data} code={study.series.code} />}
+      {isOwner && allows(ACCESS.studiesWrite, me.data?.roles) && (
+        <div className="mt-4">
+          <RangeMethodsForm key={study.updatedAt} study={study} />
+        </div>
+      )}
     </>
   );
 }
