@@ -118,7 +118,11 @@ export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; 
   if (!snap) throw conflict('no_content', 'This exhibit has no data to download yet.');
   // A range exhibit: each method's cycle, then the median, lowest and highest across the methods.
   const r = snap.range;
-  const lines = r ? [...snap.lines, ...(['median', 'min', 'max'] as const).map((k) => ({ label: RANGE_COLUMNS[k], role: 'cycle' as const, periods: r.periods, values: r[k] }))] : snap.lines;
+  const ranged = r ? [...snap.lines, ...(['median', 'min', 'max'] as const).map((k) => ({ label: RANGE_COLUMNS[k], role: 'cycle' as const, periods: r.periods, values: r[k] }))] : snap.lines;
+  // The band of past revisions (the exhibit option): its lower and upper edge at the last periods.
+  const band = snap.revisionBand ?? [];
+  const lines = band.length ? [...ranged, ...(['lower', 'upper'] as const).map((k) => ({ label: `band of past revisions: ${k} edge`, role: 'cycle' as const, periods: band.map((b) => b.period), values: band.map((b) => b[k]) }))] : ranged;
+  const named = snap.chartKind === 'compare' || snap.chartKind === 'range';
   const aligned = alignByPeriod(lines);
   const transform = snap.transform ?? snap.studies[0]?.transform ?? 'none';
   const h = decompositionHeaders(transform, snap.series[0]?.unit ?? '', snap.text.units ?? '');
@@ -127,7 +131,7 @@ export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; 
     csvAbout: true,
     columns: [
       { header: 'period', kind: 'text' as const },
-      ...lines.map((l) => computed(snap.chartKind === 'compare' || snap.chartKind === 'range' ? `${l.label}, ${snap.text.units ?? ''}`.replace(/, $/, '') : h[l.role])),
+      ...lines.map((l) => computed(named || l.label.startsWith('band of past revisions') ? `${l.label}, ${snap.text.units ?? ''}`.replace(/, $/, '') : h[l.role])),
       { header: 'vintage', kind: 'text' as const },
       { header: 'method', kind: 'text' as const },
     ],

@@ -124,6 +124,14 @@ describe('the band of past revisions as an exhibit option', () => {
     expect(chart.legend.data.map((d) => d.name)).toEqual(['band of past revisions (not a forecast)']);
     expect(chart.series.map((x) => x.name)).toContain('band of past revisions (not a forecast): upper edge');
 
+    // The download carries the band's edges beside the cycle, and its note.
+    const csv = (await author.get(`/api/v1/exhibits/${e.id}/data?format=csv`).expect(200)).text;
+    expect(csv).toContain('band of past revisions: lower edge, % of trend');
+    expect(csv).toContain('a record of past revisions, not a forecast');
+    const last = realtime.revisionBand.at(-1);
+    const row = csv.split(/\r?\n/).find((l: string) => l.startsWith(`${last.period},`))!;
+    expect(row).toContain(String(last.lower).slice(0, 6));
+
     // Frozen with the exhibit; turned off, the draft's live content has no band and the plain caution.
     const submitted = (await author.post(`/api/v1/exhibits/${e.id}/transitions`).send({ to: 'in_review' }).expect(200)).body;
     expect(submitted.snapshot.revisionBand).toEqual(realtime.revisionBand);
