@@ -155,7 +155,7 @@ export function ensurePrintTools() {
  * study with statsmodels (issue 15); `npm run references` and the bench's reference rows use it too.
  */
 export function ensureStatsmodels() {
-  if (spawnSync('/usr/bin/python3', ['-c', 'import statsmodels'], { stdio: 'ignore' }).status !== 0) {
+  if (spawnSync('/usr/bin/python3', ['-c', 'import statsmodels.tsa.filters.hp_filter, statsmodels.tsa.statespace.structural'], { stdio: 'ignore' }).status !== 0) {
     aptInstall(['python3-statsmodels'], 'The study-script tests run Python scripts that use statsmodels (python3-statsmodels), which is not installed.');
   }
 }

@@ -30,7 +30,10 @@ export function decomposeRoutes(deps: AppDeps): RouteSpec[] {
         await admitHeavy(deps.db, deps.config.heavyUnitsPerMinute, auth!.user.id, units);
         if (inlineWork(request.values.length, [request.method])) return void res.json(decomposeOne(request));
         // Large or costly: computed and serialized off the request thread, its time charged to the account.
-        const bytes = await decomposeOnWorker(deps.pool, request, (ms) => chargeCompute(deps.db, auth!.user.id, ms, units));
+        let computeMs = 0;
+        const bytes = await decomposeOnWorker(deps.pool, request, (ms) => chargeCompute(deps.db, auth!.user.id, (computeMs = ms), units));
+        // The computing time the budget was charged for (the standard Server-Timing header).
+        res.setHeader('Server-Timing', `compute;dur=${computeMs}`);
         res.status(200).type('application/json').end(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
       },
     },
