@@ -12,23 +12,11 @@ import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { formatPeriod, periodIndex } from '../server/analysis/periods.js';
 import type { Frequency } from '../server/schemas/frequency.js';
+import { normal, rng } from './lib/random.js';
 
 const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
 const out = path.join(root, 'datasets', 'demo');
 
-function rng(seed: number) {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-function normal(r: () => number) {
-  return Math.sqrt(-2 * Math.log(r() + 1e-12)) * Math.cos(2 * Math.PI * r());
-}
 
 interface VintageSpec {
   number: number;

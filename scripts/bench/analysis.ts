@@ -14,35 +14,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { decompose } from '../../server/analysis/index.js';
 import { runBatch } from '../../server/services/decompose.js';
+import { gc, time, timeAsync } from './timing.js';
 
-const gc = (globalThis as { gc?: () => void }).gc ?? (() => {});
-
-function median(xs: number[]) {
-  const s = [...xs].sort((a, b) => a - b);
-  return s[Math.floor(s.length / 2)];
-}
-function time(f: () => void, reps: number, warmup = 2): number {
-  for (let i = 0; i < warmup; i++) f();
-  const ts: number[] = [];
-  for (let i = 0; i < reps; i++) {
-    gc();
-    const t = performance.now();
-    f();
-    ts.push(performance.now() - t);
-  }
-  return median(ts);
-}
-async function timeAsync(f: () => Promise<unknown>, reps: number, warmup = 2): Promise<number> {
-  for (let i = 0; i < warmup; i++) await f();
-  const ts: number[] = [];
-  for (let i = 0; i < reps; i++) {
-    gc();
-    const t = performance.now();
-    await f();
-    ts.push(performance.now() - t);
-  }
-  return median(ts);
-}
 function randomWalk(n: number, seed: number): Float64Array {
   let s = seed >>> 0;
   const rand = () => {

@@ -18,6 +18,7 @@ import { loadConfig } from '../../server/config.js';
 import { createDb, migrateLatest } from '../../server/db.js';
 import { createLogger } from '../../server/lib/logger.js';
 import { hashPassword } from '../../server/auth/password.js';
+import { median } from './timing.js';
 
 const RELEASES = 100;
 const QUARTERS = 180;
@@ -44,7 +45,6 @@ await new Promise((r) => server.once('listening', r));
 const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
 const signIn = await fetch(`${base}/api/v1/auth/sign-in`, { method: 'POST', headers: { 'Content-Type': 'application/json' }, body: JSON.stringify({ email: 'bench@demo.test', password: 'bench-password-1' }) });
 const headers = { Cookie: signIn.headers.get('set-cookie')!.split(';')[0], Origin: config.publicOrigin };
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 
 /** Every release publishes the 180 quarters; release r revises the last eight a little (its own way). */
 const period = (i: number) => `${1980 + Math.floor(i / 4)}-Q${(i % 4) + 1}`;

@@ -13,20 +13,7 @@ import path from 'node:path';
 import { decompose } from '../../server/analysis/index.js';
 import { rangeAcross } from '../../server/analysis/range.js';
 import { realtimeReliability, revisionSpread } from '../../server/analysis/realtime.js';
-
-const gc = (globalThis as { gc?: () => void }).gc ?? (() => {});
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
-function time(f: () => void, reps: number, warmup = 2): number {
-  for (let i = 0; i < warmup; i++) f();
-  const ts: number[] = [];
-  for (let i = 0; i < reps; i++) {
-    gc();
-    const t = performance.now();
-    f();
-    ts.push(performance.now() - t);
-  }
-  return median(ts);
-}
+import { time } from './timing.js';
 
 const csv = fs.readFileSync(path.join(import.meta.dirname, '..', '..', 'datasets/reference/us-macrodata-1959q1-2009q3.csv'), 'utf8').trim().split('\n').slice(1);
 const logGdp = Float64Array.from(csv.map((l) => 100 * Math.log(Number(l.split(',')[2]))));
