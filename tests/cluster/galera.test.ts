@@ -196,13 +196,14 @@ describe('a node killed with SIGKILL in the middle of a large load', () => {
 
     // Meanwhile: loads through instance 2 (node 2), reads through both instances.
     let running = true;
-    const acked: { number: number; checksum: string }[] = [];
+    const acked: { number: number; checksum: string; at: number }[] = [];
     const loadAnswers: { status: number; code?: string }[] = [];
     const writer = (async () => {
       for (let level = 500; running; level++) {
+        const at = Date.now();
         const r = await loadRelease(app2, small, level);
         loadAnswers.push({ status: r.status, code: r.body.error?.code });
-        if (r.status === 201) acked.push({ number: r.body.vintage.number, checksum: r.body.vintage.checksum });
+        if (r.status === 201) acked.push({ number: r.body.vintage.number, checksum: r.body.vintage.checksum, at });
         await sleep(100);
       }
     })();
@@ -236,8 +237,12 @@ describe('a node killed with SIGKILL in the middle of a large load', () => {
     await c.haproxy.waitFor('db_1', 'node1', 'DOWN', 20_000);
     expect(await waitFor(async () => (await get(app1, '/series')).status === 200, 20_000)).toBe(true);
     const failoverMs = Date.now() - killedAt;
-    // Writes go on while node 1 is away, so it has something to catch up on.
+    // Writes and reads go on while node 1 is away, so it has something to catch up on and instance
+    // 2 shows it kept answering: at least 3 s, and until instance 2 has answered six reads and
+    // stored three loads begun after the kill (a slow machine can take the cluster seconds to
+    // settle on its new membership, and the reads wait for it).
     await sleep(3000);
+    const kept = await waitFor(async () => reads.app2.filter((r) => r.at > killedAt).length > 5 && acked.filter((a) => a.at > killedAt).length >= 3, 30_000);
     running = false;
     await Promise.all([writer, ...readers]);
 
@@ -253,12 +258,14 @@ describe('a node killed with SIGKILL in the middle of a large load', () => {
     // Instance 2's node stayed up: all its reads were answered with data.
     expect(reads.app2.every((r) => r.status === 200)).toBe(true);
     const afterKill = reads.app2.filter((r) => r.at > killedAt);
-    expect(afterKill.length).toBeGreaterThan(5);
-    expect(acked.length).toBeGreaterThan(5);
+    const timeline = `kill at +0 ms; instance 2 reads begun after it: ${afterKill.map((r) => `+${r.at - killedAt} (${r.ms} ms)`).join(', ')}`;
+    expect(kept, timeline).toBe(true);
+    expect(afterKill.length, timeline).toBeGreaterThan(5);
+    expect(acked.filter((a) => a.at > killedAt).length, timeline).toBeGreaterThanOrEqual(3);
     console.log(
       `fault: load answer ${loaded.last.type === 'error' ? `503 ${loaded.last.error.code}` : 'stored'}; instance 1 answered again ${failoverMs} ms after the kill; ` +
         `instance 2: ${loadAnswers.length} loads (${acked.length} stored, ${loadAnswers.filter((a) => a.status === 503).length} answered 503), slowest read ${Math.max(...reads.app2.map((r) => r.ms))} ms; ` +
-        `instance 1 reads answered 503: ${reads.app1.filter((r) => r.status === 503).length} of ${reads.app1.length}; node 1 rejoined by ${rejoin.transfer} in ${rejoin.ms} ms`,
+        `instance 1 reads answered 503: ${reads.app1.filter((r) => r.status === 503).length} of ${reads.app1.length}; node 1 rejoined by ${rejoin.transfer} in ${rejoin.ms} ms; ${afterKill.length} instance 2 reads begun after the kill, the first answered in ${afterKill[0]?.ms} ms`,
     );
 
     // All three nodes hold the same vintages, each matching the checksum of its own observations.
