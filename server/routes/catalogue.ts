@@ -6,7 +6,7 @@ import { ACCESS } from '../schemas/access.js';
 import { badRequest, conflict } from '../lib/errors.js';
 import { parseOr400, sendFile, type RouteSpec } from '../lib/http.js';
 import { answerWithProgress } from '../lib/stream.js';
-import { asOfQuerySchema, createSeriesSchema, loadFieldsSchema, updateSeriesSchema, type ObservationsAsOf } from '../schemas/catalogue.js';
+import { asOfQuerySchema, createSeriesSchema, loadFieldsSchema, seriesListQuerySchema, updateSeriesSchema, type ObservationsAsOf } from '../schemas/catalogue.js';
 import { listLoads, loadFile, type LoadRequest } from '../services/catalogue/loads.js';
 import { revisionTriangle, revisions } from '../services/catalogue/revisions.js';
 import { createSeries, deleteSeries, listSeries, resolveSeriesRef, updateSeries } from '../services/catalogue/series.js';
@@ -46,10 +46,10 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       method: 'get',
       path: '/series',
       access: 'signedIn',
-      summary: 'The Catalogue: every series with its latest vintage',
+      summary: 'The Catalogue: the matching series with their latest vintage (one page with limit and offset) and how many match',
       tags: ['catalogue'],
-      query: z.object({ q: z.string().max(100).optional(), frequency: z.enum(['A', 'Q', 'M']).optional(), unit: z.string().max(120).optional() }),
-      handler: async ({ query }) => ({ items: await listSeries(db, query) }),
+      query: seriesListQuerySchema,
+      handler: ({ query }) => listSeries(db, query),
     },
     {
       method: 'post',

@@ -195,3 +195,35 @@ export interface Vintage {
 export interface SeriesListItem extends Series {
   latestVintage: { number: number; asOf: string; loadedAt: string; lastPeriod: string | null; rowCount: number } | null;
 }
+
+/** The most series one page of the Catalogue's list holds (`?limit=`). */
+export const SERIES_PAGE_MAX = 500;
+
+/**
+ * `GET /series` query: a search text over code and title, filters, and an optional page
+ * (`limit`, `offset`). Without `limit` every matching series is answered, as before.
+ */
+export const seriesListQuerySchema = z.object({
+  q: z.string().max(100, 'The search text has at most 100 characters.').optional(),
+  frequency: z.enum(['A', 'Q', 'M'], { error: 'The frequency is A, Q or M.' }).optional(),
+  unit: z.string().max(120, 'The unit has at most 120 characters.').optional(),
+  limit: z.coerce
+    .number({ error: 'The limit is a whole number of series from 1 to 500.' })
+    .int('The limit is a whole number of series from 1 to 500.')
+    .min(1, 'The limit is at least 1.')
+    .max(SERIES_PAGE_MAX, `The limit is at most ${SERIES_PAGE_MAX}: ask for the next page with offset.`)
+    .optional(),
+  offset: z.coerce
+    .number({ error: 'The offset is a whole number of series to skip, from 0.' })
+    .int('The offset is a whole number of series to skip, from 0.')
+    .min(0, 'The offset is at least 0.')
+    .max(2 ** 31, 'The offset is too large.')
+    .optional(),
+});
+export type SeriesListQuery = z.infer<typeof seriesListQuerySchema>;
+
+/** `GET /series`: the matching series in code order (one page when `limit` is given) and how many match in all. */
+export interface SeriesListAnswer {
+  items: SeriesListItem[];
+  total: number;
+}

@@ -2,19 +2,25 @@
 import type { Knex } from 'knex';
 import { fastQuery, type Db } from '../../db.js';
 import { conflict, notFound } from '../../lib/errors.js';
-import type { CreateSeriesBody, Series, SeriesListItem } from '../../schemas/catalogue.js';
+import type { CreateSeriesBody, Series, SeriesListAnswer, SeriesListQuery } from '../../schemas/catalogue.js';
 import { audit } from '../audit.js';
 import { dateOnly, iso, toSeries } from './rows.js';
 import { seriesHoldingPieces } from './search.js';
 import { transaction } from '../../lib/retry.js';
 
-export async function listSeries(db: Db, filter: { q?: string; frequency?: string; unit?: string } = {}): Promise<SeriesListItem[]> {
+/**
+ * The Catalogue's list: the series matching `q` (code or title), `frequency` and `unit`, in code
+ * order, each with its latest vintage, and how many match in all (`total`). With `limit` (and
+ * `offset`) one page of them: the page and the count are two queries, neither of which reads the
+ * series outside the page's rows beyond the index of codes.
+ */
+export async function listSeries(db: Db, filter: SeriesListQuery = {}): Promise<SeriesListAnswer> {
   const where: string[] = [];
   const bindings: unknown[] = [];
   if (filter.q) {
     // The index of three-character pieces finds the candidates; the LIKE decides, as it always did.
     const candidates = await seriesHoldingPieces(db, filter.q);
-    if (candidates?.length === 0) return [];
+    if (candidates?.length === 0) return { items: [], total: 0 };
     if (candidates) {
       where.push(`s.id IN (${candidates.map(() => '?').join(',')})`);
       bindings.push(...candidates);
@@ -30,19 +36,31 @@ export async function listSeries(db: Db, filter: { q?: string; frequency?: strin
     where.push('s.unit = ?');
     bindings.push(filter.unit);
   }
+  const whereSql = where.length ? `WHERE ${where.join(' AND ')}` : '';
+  const paged = filter.limit !== undefined || filter.offset !== undefined;
+  // Codes are unique, so code order is the same on every page. MariaDB takes OFFSET only after a
+  // LIMIT: without one, the largest it accepts.
+  const page = paged ? ` LIMIT ${filter.limit ?? '18446744073709551615'} OFFSET ${filter.offset ?? 0}` : '';
   // The latest vintage through the (series_id, number) unique index: no scan of all vintages. Raw
   // SQL, as on the other hot read paths (building the query with Knex cost more than running it).
-  const rows = await fastQuery(
-    db,
-    `SELECT s.*, v.number AS v_number, v.as_of AS v_as_of, v.created_at AS v_created_at, v.last_period AS v_last_period, v.row_count AS v_rows
-       FROM series s LEFT JOIN vintages v ON v.series_id = s.id AND v.number = (SELECT MAX(v2.number) FROM vintages v2 WHERE v2.series_id = s.id)
-      ${where.length ? `WHERE ${where.join(' AND ')}` : ''} ORDER BY s.code`,
-    bindings,
-  );
-  return rows.map((r) => ({
+  // A page: the ids of its series through the index of codes first, then their rows (a derived
+  // table of whole rows, notes and all, would be sorted through a temporary table).
+  const from = paged ? `(SELECT s.id FROM series s ${whereSql} ORDER BY s.code${page}) p JOIN series s ON s.id = p.id` : `series s`;
+  const [rows, counted] = await Promise.all([
+    fastQuery(
+      db,
+      `SELECT s.*, v.number AS v_number, v.as_of AS v_as_of, v.created_at AS v_created_at, v.last_period AS v_last_period, v.row_count AS v_rows
+         FROM ${from} LEFT JOIN vintages v ON v.series_id = s.id AND v.number = (SELECT MAX(v2.number) FROM vintages v2 WHERE v2.series_id = s.id)
+        ${paged ? '' : whereSql} ORDER BY s.code`,
+      bindings,
+    ),
+    paged ? fastQuery<{ n: number }>(db, `SELECT COUNT(*) AS n FROM series s ${whereSql}`, bindings) : null,
+  ]);
+  const items = rows.map((r) => ({
     ...toSeries(r),
     latestVintage: r.v_number ? { number: r.v_number, asOf: dateOnly(r.v_as_of), loadedAt: iso(r.v_created_at)!, lastPeriod: r.v_last_period, rowCount: r.v_rows } : null,
   }));
+  return { items, total: counted ? Number(counted[0].n) : items.length };
 }
 
 export async function getSeries(db: Db | Knex.Transaction, id: number): Promise<Series> {
