@@ -17,6 +17,7 @@ import { mount, type RegisteredRoute, type RouteSpec } from './lib/http.js';
 import { redactUrl, type Logger } from './lib/logger.js';
 import { createLucia } from './auth/lucia.js';
 import { authenticate, originCheck } from './auth/middleware.js';
+import { TokenMemory } from './auth/token-memory.js';
 import { createMailer } from './mail/mailer.js';
 import { authRoutes } from './routes/auth.js';
 import { healthRoutes } from './routes/health.js';
@@ -117,7 +118,7 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
   const routes: RegisteredRoute[] = [];
   const api = express.Router();
   api.use(express.json({ limit: config.maxJsonBytes, strict: true }));
-  api.use(authenticate(db, deps.lucia));
+  api.use(authenticate(db, deps.lucia, new TokenMemory(config.tokenRecheckMs)));
   api.use(originCheck(config));
 
   const groups: RouteSpec[][] = [healthRoutes(deps), openapiRoutes(() => routes, config), authRoutes(deps), peopleRoutes(deps), catalogueRoutes(deps), decomposeRoutes(deps), analysisRoutes(deps), studyRoutes(deps), boardRoutes(deps), exhibitRoutes(deps), printRoutes(deps), chronologyRoutes(deps), alertRoutes(deps), feedRoutes(deps), sdmxRoutes(deps)];

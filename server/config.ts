@@ -58,6 +58,8 @@ const schema = z.object({
   SEED_DEMO: bool.default(true),
   /** Values of immutable vintages kept in memory for repeated decompositions. */
   OBSERVATION_CACHE_VALUES: z.coerce.number().int().min(0).max(500_000_000).default(2_000_000),
+  /** How long an instance may answer reads with an API token it has already checked, without asking the database again (0: never). */
+  TOKEN_RECHECK_MS: z.coerce.number().int().min(0).max(60_000).default(2000),
   /** On SIGTERM/SIGINT, how long requests in flight may run before their connections are closed. */
   SHUTDOWN_GRACE_SECONDS: z.coerce.number().min(0).max(3600).default(30),
 });
@@ -85,6 +87,7 @@ export type Config = {
   staticDir?: string;
   seedDemo: boolean;
   observationCacheValues: number;
+  tokenRecheckMs: number;
   shutdownGraceMs: number;
 };
 
@@ -137,6 +140,7 @@ export function loadConfig(env: Record<string, string | undefined> = process.env
     staticDir: e.STATIC_DIR,
     seedDemo: e.SEED_DEMO,
     observationCacheValues: e.OBSERVATION_CACHE_VALUES,
+    tokenRecheckMs: e.TOKEN_RECHECK_MS,
     shutdownGraceMs: Math.round(e.SHUTDOWN_GRACE_SECONDS * 1000),
   };
 }

@@ -9,6 +9,7 @@ import type { Db } from '../db.js';
 import { HttpError } from '../lib/errors.js';
 import { userForToken } from '../services/people/tokens.js';
 import { SESSION_COOKIE, type AppLucia } from './lucia.js';
+import type { TokenMemory } from './token-memory.js';
 
 declare module 'express-serve-static-core' {
   interface Request {
@@ -28,16 +29,28 @@ export function clearSessionCookie(res: Response, lucia: AppLucia, secure: boole
   res.append('Set-Cookie', cookie.serialize());
 }
 
-export function authenticate(db: Db, lucia: AppLucia): RequestHandler {
+const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
+
+export function authenticate(db: Db, lucia: AppLucia, tokens: TokenMemory): RequestHandler {
   return async (req, res, next) => {
     req.auth = null;
+    const read = SAFE.has(req.method);
+    if (!read) {
+      // A change through this instance may revoke a token or change roles: forget every check,
+      // now and when it is done.
+      tokens.forget();
+      res.once('finish', () => tokens.forget());
+    }
     try {
       const header = req.headers.authorization;
       if (header) {
         const token = lucia.readBearerToken(header);
         if (!token) throw new HttpError(401, 'invalid_token', 'The Authorization header must be "Bearer <token>".');
-        const found = await userForToken(db, token);
+        const recalled = read ? tokens.recall(token) : undefined;
+        const at = performance.now();
+        const found = recalled ?? (await userForToken(db, token));
         if (!found) throw new HttpError(401, 'invalid_token', 'This API token is not valid: it may have been revoked, or its owner deactivated.');
+        if (!recalled) tokens.keep(token, found, at);
         req.auth = { user: found.user, via: 'token', tokenId: found.tokenId };
         return next();
       }
@@ -61,7 +74,6 @@ export function authenticate(db: Db, lucia: AppLucia): RequestHandler {
   };
 }
 
-const SAFE = new Set(['GET', 'HEAD', 'OPTIONS']);
 
 /**
  * Cookie-borne writes need an Origin (or Referer) of ours: the configured public origin or one of
