@@ -112,7 +112,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       method: 'get',
       path: '/studies/:id/export',
       access: ACCESS.studiesRead,
-      summary: 'The study’s numbers as CSV or XLSX, with the method line and the vintage stamp',
+      summary: 'The study’s numbers as CSV or XLSX, with the method line and the vintage stamp; for a range study each method’s cycle and the median, lowest and highest across them',
       tags: ['studies'],
       query: z.object({ format: z.enum(['csv', 'xlsx']).default('csv') }),
       raw: true,

@@ -6,14 +6,15 @@
 import type { Db } from '../db.js';
 import { buildExport, type ExportFile, type ExportTable } from '../importers/export.js';
 import { conflict } from '../lib/errors.js';
-import { CAUTION_LINE } from '../schemas/cautions.js';
+import { CAUTION_LINE, RANGE_CAUTION } from '../schemas/cautions.js';
 import type { PublicUser } from '../schemas/people.js';
 import { alignByPeriod } from '../schemas/align.js';
 import { COMPUTED_DIGITS } from '../schemas/numbers.js';
 import { getSeries } from './catalogue/series.js';
 import { observationsOf, resolveVintage, vintageMetadata } from './catalogue/vintages.js';
 import { getExhibit, publicExhibit, type ExhibitDeps } from './exhibits/read.js';
-import { studyResult } from './studies/results.js';
+import { rangeStudyResult, studyResult } from './studies/results.js';
+import { getStudy } from './studies/studies.js';
 
 /** A vintage's observations, described by the metadata it was loaded under (not the series' metadata of today). */
 export async function vintageExport(db: Db, seriesId: number, which: number | 'latest', format: 'csv' | 'xlsx' | 'sdmx-csv'): Promise<ExportFile> {
@@ -77,8 +78,10 @@ export function decompositionHeaders(transform: string, seriesUnit: string, cycl
 const computed = (header: string) => ({ header, kind: 'number' as const, digits: COMPUTED_DIGITS });
 const PRECISION_NOTE = `computed values to ${COMPUTED_DIGITS} significant digits; loaded values as stored`;
 
-/** A study's numbers with the method line and the vintage stamp on every row. */
+/** A study's numbers with the method line and the vintage stamp on every row; a range study's, each method's cycle and the range across them. */
 export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx'): Promise<ExportFile> {
+  const study = await getStudy(db, studyId);
+  if (study.kind === 'range') return rangeStudyExport(await rangeStudyResult(db, undefined, study), format);
   const r = await studyResult(db, studyId);
   const h = decompositionHeaders(r.transform, r.series.unit, r.unitOfCycle);
   const table: ExportTable = {
@@ -109,6 +112,31 @@ export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx
 }
 
 const RANGE_COLUMNS = { median: 'median across methods', min: 'lowest across methods', max: 'highest across methods' };
+
+/** A range study's download: per period each method's cycle (named by the method), then the median, lowest and highest across them. */
+function rangeStudyExport(r: Awaited<ReturnType<typeof rangeStudyResult>>, format: 'csv' | 'xlsx'): Promise<ExportFile> {
+  const vintageStamp = `data as of ${r.asOf}, vintage ${r.vintage}`;
+  const methodLine = `range across ${r.items.length} methods: ${r.items.map((it) => it.methodLine).join(' · ')}`;
+  const cycles = [...r.items.map((it) => ({ label: it.name, values: it.cycle })), ...(['median', 'min', 'max'] as const).map((k) => ({ label: RANGE_COLUMNS[k], values: r[k] }))];
+  const table: ExportTable = {
+    csvAbout: true,
+    columns: [{ header: 'period', kind: 'text' }, ...cycles.map((c) => computed(`cycle, ${c.label}, ${r.unitOfCycle}`)), { header: 'vintage', kind: 'text' }],
+    rows: r.periods.map((p, i) => [p, ...cycles.map((c) => c.values[i]), vintageStamp]),
+    about: [
+      ['Study', r.study.title],
+      ['Series', `${r.series.code}: ${r.series.title}`],
+      ['Unit', r.series.unit],
+      ['Source', r.series.source],
+      ['Transform', HOW[r.transform] ?? r.transform],
+      ['Cycle unit', r.unitOfCycle],
+      ['Methods', methodLine],
+      ['Vintage', vintageStamp],
+      ['Numbers', PRECISION_NOTE],
+      ['Caution', `${CAUTION_LINE} ${RANGE_CAUTION}`],
+    ],
+  };
+  return buildExport(table, `study-${r.study.id}-${r.series.code}-range`, format);
+}
 
 /** The data behind an exhibit (its snapshot, or a draft's live content); by id, or by public link. */
 export async function exhibitExport(deps: ExhibitDeps, who: { user: PublicUser; id: number } | { slug: string }, format: 'csv' | 'xlsx'): Promise<ExportFile> {

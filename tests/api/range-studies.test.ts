@@ -2,7 +2,8 @@
  * Studies of kind "range" (issue 13): saved with their list of methods, read back with every
  * default filled, their result equal to POST /studies/range's for the same body; changes keep
  * what they are not sent; duplicates; refusals that store nothing; what only single-method
- * studies have refuses a range study with what to do instead. Single-method studies unchanged.
+ * studies have refuses a range study with what to do instead; its download holds each method's
+ * cycle and the range. Single-method studies unchanged.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
@@ -103,11 +104,38 @@ describe('range studies', () => {
     await steward.post('/api/v1/studies').send(rangeStudy()).expect(403);
   });
 
+  it('downloads a range study: each method’s cycle and the median, lowest and highest, as /result gives them, with both cautions', async () => {
+    const s = (await economist.post('/api/v1/studies').send(rangeStudy({ title: 'Range to download' })).expect(201)).body;
+    const result = (await economist.get(`/api/v1/studies/${s.id}/result`).expect(200)).body;
+    const res = await economist.get(`/api/v1/studies/${s.id}/export?format=csv`).expect(200);
+    expect(res.headers['content-disposition']).toMatch(/study-\d+-EST_GDP_REAL-range\.csv/);
+    const lines = res.text.trim().split('\n');
+    const about = lines.filter((l) => l.startsWith('#')).join('\n');
+    expect(about).toMatch(/^# Study: Range to download$/m);
+    expect(about).toMatch(/end-of-sample estimates are revised/);
+    expect(about).toMatch(/not a forecast/);
+    const [header, ...rows] = lines.filter((l) => !l.startsWith('#'));
+    // Headers are quoted when they hold commas: split on commas outside quotes.
+    const cells = (line: string) => line.match(/("[^"]*"|[^,]*)(,|$)/g)!.map((c) => c.replace(/,$/, '').replace(/^"|"$/g, '')).slice(0, -1);
+    const names = [...result.items.map((it: { name: string }) => it.name), 'median across methods', 'lowest across methods', 'highest across methods'];
+    expect(cells(header)).toEqual(['period', ...names.map((n) => `cycle, ${n}, ${result.unitOfCycle}`), 'vintage']);
+    expect(rows.map((r) => cells(r)[0])).toEqual(result.periods);
+    const columns = [...result.items.map((it: { cycle: (number | null)[] }) => it.cycle), result.median, result.min, result.max];
+    rows.forEach((row, i) => {
+      const c = cells(row);
+      columns.forEach((col: (number | null)[], j: number) => {
+        if (col[i] === null) expect(c[j + 1]).toBe('');
+        else expect(Number(c[j + 1])).toBeCloseTo(col[i]!, 8);
+      });
+      expect(c.at(-1)).toBe(`data as of ${result.asOf}, vintage 4`);
+    });
+    const xlsx = await economist.get(`/api/v1/studies/${s.id}/export?format=xlsx`).expect(200);
+    expect(xlsx.headers['content-type']).toMatch(/spreadsheetml/);
+  });
+
   it('what only a study of one method has refuses a range study and says what to do', async () => {
-    const s = (await economist.post('/api/v1/studies').send(rangeStudy({ title: 'no export' })).expect(201)).body;
+    const s = (await economist.post('/api/v1/studies').send(rangeStudy({ title: 'no script' })).expect(201)).body;
     for (const res of [
-      await economist.get(`/api/v1/studies/${s.id}/export`).expect(400),
-      await economist.get(`/api/v1/studies/${s.id}/script`).expect(400),
       await economist.post(`/api/v1/studies/${s.id}/realtime`).expect(400),
     ]) {
       expect(res.body.error.code).toBe('range_study');

@@ -1,7 +1,7 @@
 /**
  * The study page of a range study: the range of gap estimates across its methods (chart, caution,
- * per-method table), with the same actions as a study of one method where they apply (draft an
- * exhibit, duplicate, delete); its owner changes its methods (RangeMethodsForm).
+ * per-method table), with the same actions as a study of one method where they apply (download,
+ * draft an exhibit, duplicate, delete); its owner changes its methods (RangeMethodsForm).
  */
 import { useQuery } from '@tanstack/react-query';
 import { Link, useNavigate } from 'react-router-dom';
@@ -10,7 +10,7 @@ import type { RangeResult } from '@schemas/analyses';
 import { ErrorNote, PageHeader, Progress } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { RangeResultView } from '@/features/analyses/RangeResultView';
-import { api } from '@/lib/api';
+import { API, api } from '@/lib/api';
 import { useStudyAction, type Study } from './api';
 import { RangeMethodsForm } from './RangeMethodsForm';
 
@@ -27,6 +27,12 @@ export function RangeStudyView({ study }: { study: Study }) {
         kicker="Range study"
         actions={
           <>
+            <a className="btn-quiet" href={`${API}/studies/${study.id}/export?format=csv`} download aria-label="Download the range as CSV">
+              CSV
+            </a>
+            <a className="btn-quiet" href={`${API}/studies/${study.id}/export?format=xlsx`} download aria-label="Download the range as XLSX">
+              XLSX
+            </a>
             {allows(ACCESS.exhibitsDraft, me.data?.roles) && (
               <Link className="btn" to={`/exhibits/new?studyId=${study.id}&title=${encodeURIComponent(study.title)}`}>
                 Draft an exhibit
