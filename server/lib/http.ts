@@ -70,7 +70,7 @@ export function parseOr400<T>(schema: z.ZodType<T>, value: unknown, what: string
     const details = zodDetails(parsed.error);
     const first = details[0];
     const where = first?.path ? ` (${first.path})` : '';
-    throw new HttpError(400, 'invalid_input', `The ${what} is not valid${where}: ${first?.message ?? 'see details'}.`, details);
+    throw new HttpError(400, 'invalid_input', `The ${what} is not valid${where}: ${(first?.message ?? 'see details').replace(/\.$/, '')}.`, details);
   }
   return parsed.data;
 }

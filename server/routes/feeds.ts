@@ -1,11 +1,11 @@
-/** Feeds: scheduled SDMX pulls, "Run now" (with progress as NDJSON) and their run records (stewards). */
+/** Feeds: scheduled SDMX pulls (registered, changed, paused, removed), "Run now" (with progress as NDJSON) and their run records (stewards). */
 import { z } from 'zod';
 import type { AppDeps } from '../deps.js';
 import { ACCESS } from '../schemas/access.js';
 import { idParam, type RouteSpec } from '../lib/http.js';
 import { answerWithProgress } from '../lib/stream.js';
-import { createFeedSchema } from '../schemas/feeds.js';
-import { createFeed, listFeeds, listRuns } from '../services/feeds/registry.js';
+import { createFeedSchema, updateFeedSchema } from '../schemas/feeds.js';
+import { createFeed, deleteFeed, listFeeds, listRuns, updateFeed } from '../services/feeds/registry.js';
 import { runFeed } from '../services/feeds/run.js';
 
 export function feedRoutes(deps: AppDeps): RouteSpec[] {
@@ -28,6 +28,24 @@ export function feedRoutes(deps: AppDeps): RouteSpec[] {
       body: createFeedSchema,
       status: 201,
       handler: ({ body, auth, req }) => createFeed(db, auth!.user.id, body, req.ip),
+    },
+    {
+      method: 'patch',
+      path: '/feeds/:id',
+      access: ACCESS.catalogueWrite,
+      summary: 'Change a feed: name, address, series, schedule, headers (the whole list, with values), steward; enabled: false pauses its schedule',
+      tags: ['feeds'],
+      body: updateFeedSchema,
+      handler: ({ params, body, auth, req }) => updateFeed(db, auth!.user.id, idParam(params.id, 'Feed'), body, req.ip),
+    },
+    {
+      method: 'delete',
+      path: '/feeds/:id',
+      access: ACCESS.catalogueWrite,
+      summary: 'Remove a feed and its run records (the vintages it stored stay); 409 while it runs',
+      tags: ['feeds'],
+      status: 204,
+      handler: ({ params, auth, req }) => deleteFeed(db, auth!.user.id, idParam(params.id, 'Feed'), req.ip),
     },
     {
       method: 'post',

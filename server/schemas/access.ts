@@ -55,7 +55,7 @@ export const PAGES = [
   { path: '/catalogue', access: 'signedIn', api: ['GET /api/v1/series'], nav: 'Catalogue' },
   { path: '/catalogue/new', access: ACCESS.catalogueWrite, api: ['POST /api/v1/series'] },
   { path: '/catalogue/loads', access: ACCESS.catalogueWrite, api: ['POST /api/v1/loads', 'GET /api/v1/loads'] },
-  { path: '/catalogue/feeds', access: ACCESS.catalogueWrite, api: ['GET /api/v1/feeds', 'POST /api/v1/feeds', 'POST /api/v1/feeds/:id/run', 'GET /api/v1/feeds/:id/runs', 'GET /api/v1/series'] },
+  { path: '/catalogue/feeds', access: ACCESS.catalogueWrite, api: ['GET /api/v1/feeds', 'POST /api/v1/feeds', 'PATCH /api/v1/feeds/:id', 'DELETE /api/v1/feeds/:id', 'POST /api/v1/feeds/:id/run', 'GET /api/v1/feeds/:id/runs', 'GET /api/v1/series'] },
   { path: '/catalogue/:id', access: 'signedIn', api: ['GET /api/v1/series/:id', 'GET /api/v1/series/:id/vintages', 'GET /api/v1/series/:id/vintages/:number/observations', 'GET /api/v1/series/:id/revisions', 'GET /api/v1/series/:id/revisions/triangle', 'GET /api/v1/series/:series/history'] },
   { path: '/catalogue/:id/edit', access: ACCESS.catalogueWrite, api: ['PATCH /api/v1/series/:id', 'GET /api/v1/series/:id'] },
   { path: '/studies', access: ACCESS.studiesRead, api: ['GET /api/v1/studies', 'GET /api/v1/methods'], nav: 'Studies' },

@@ -34,6 +34,14 @@ export function scheduleInWords(expression: string | null | undefined): string {
   }
 }
 
+/** The latest time the schedule names at or before `now`, or null. */
+export function latestSlot(schedule: string, now: Date): Date | null {
+  if (checkSchedule(schedule)) return null;
+  // croner reads the reference to the second and looks strictly before it: a second on, so that a
+  // tick at 09:30:00.004 finds 09:30 itself.
+  return new Cron(schedule, { paused: true, timezone: SCHEDULE_ZONE }).previousRuns(1, new Date(Math.floor(now.getTime() / 1000) * 1000 + 1000))[0] ?? null;
+}
+
 /** The scheduled times after `from` (at most `count`), for the form's "next runs". */
 export function nextRuns(expression: string, count: number, from = new Date()): Date[] {
   if (checkSchedule(expression)) return [];
@@ -49,53 +57,82 @@ export const feedHeaderSchema = z.object({ name: headerName, value: z.string().m
 
 const RESERVED_HEADERS = new Set(['host', 'content-length', 'connection', 'transfer-encoding', 'accept-encoding']);
 
+const feedName = z.string().trim().min(1, 'Give the feed a name.').max(120);
+const feedUrl = z
+  .string()
+  .trim()
+  .max(2000)
+  .url('Give the full address, starting with https:// or http://.')
+  .refine((u) => /^https?:\/\//i.test(u), 'The address starts with https:// or http://.')
+  .refine((u) => /\/data\/[^/?#]+/.test(u), 'An SDMX REST data address has the form …/data/{flow}/{key}.');
+const feedMappings = z.array(feedMappingSchema).min(1, 'Say which series the feed fills: at least one key and series.').max(200);
+/** A schedule, or null / "" for on demand only. */
+const feedSchedule = z
+  .string()
+  .trim()
+  .max(120)
+  .nullable()
+  .superRefine((s, ctx) => {
+    const problem = s ? checkSchedule(s) : null;
+    if (problem) ctx.addIssue({ code: 'custom', message: problem });
+  });
+const feedHeaders = z.array(feedHeaderSchema).max(10);
+/** The steward the feed's failures are mailed to. */
+const feedSteward = z.number().int().positive();
+
+/** Keys and series each listed once; no header the connection sets itself. */
+function checkLists(f: { mappings?: { key: string; series: string }[]; headers?: { name: string }[] }, ctx: z.RefinementCtx) {
+  const keys = new Set<string>();
+  f.mappings?.forEach((m, i) => {
+    const k = m.key.toUpperCase();
+    if (keys.has(k)) ctx.addIssue({ code: 'custom', path: ['mappings', i, 'key'], message: `The key ${m.key} is listed twice.` });
+    keys.add(k);
+  });
+  const codes = new Set<string>();
+  f.mappings?.forEach((m, i) => {
+    const c = m.series.toUpperCase();
+    if (codes.has(c)) ctx.addIssue({ code: 'custom', path: ['mappings', i, 'series'], message: `The series ${m.series} is filled by two keys; one key per series.` });
+    codes.add(c);
+  });
+  f.headers?.forEach((h, i) => {
+    if (RESERVED_HEADERS.has(h.name.toLowerCase())) ctx.addIssue({ code: 'custom', path: ['headers', i, 'name'], message: `${h.name} is set by the connection itself; leave it out.` });
+  });
+}
+
 export const createFeedSchema = z
   .object({
-    name: z.string().trim().min(1, 'Give the feed a name.').max(120),
-    url: z
-      .string()
-      .trim()
-      .max(2000)
-      .url('Give the full address, starting with https:// or http://.')
-      .refine((u) => /^https?:\/\//i.test(u), 'The address starts with https:// or http://.')
-      .refine((u) => /\/data\/[^/?#]+/.test(u), 'An SDMX REST data address has the form …/data/{flow}/{key}.'),
-    mappings: z.array(feedMappingSchema).min(1, 'Say which series the feed fills: at least one key and series.').max(200),
-    schedule: z
-      .string()
-      .trim()
-      .max(120)
-      .nullable()
-      .optional()
-      .transform((s) => (s ? s : null))
-      .superRefine((s, ctx) => {
-        const problem = s ? checkSchedule(s) : null;
-        if (problem) ctx.addIssue({ code: 'custom', message: problem });
-      }),
-    headers: z.array(feedHeaderSchema).max(10).default([]),
+    name: feedName,
+    url: feedUrl,
+    mappings: feedMappings,
+    schedule: feedSchedule.optional().transform((s) => (s ? s : null)),
+    headers: feedHeaders.default([]),
     /** The steward the feed's failures are mailed to (default: the person registering it). */
-    stewardId: z.number().int().positive().optional(),
+    stewardId: feedSteward.optional(),
     enabled: z.boolean().default(true),
   })
-  .superRefine((f, ctx) => {
-    const keys = new Set<string>();
-    f.mappings.forEach((m, i) => {
-      const k = m.key.toUpperCase();
-      if (keys.has(k)) ctx.addIssue({ code: 'custom', path: ['mappings', i, 'key'], message: `The key ${m.key} is listed twice.` });
-      keys.add(k);
-    });
-    const codes = new Set<string>();
-    f.mappings.forEach((m, i) => {
-      const c = m.series.toUpperCase();
-      if (codes.has(c)) ctx.addIssue({ code: 'custom', path: ['mappings', i, 'series'], message: `The series ${m.series} is filled by two keys; one key per series.` });
-      codes.add(c);
-    });
-    f.headers.forEach((h, i) => {
-      if (RESERVED_HEADERS.has(h.name.toLowerCase())) ctx.addIssue({ code: 'custom', path: ['headers', i, 'name'], message: `${h.name} is set by the connection itself; leave it out.` });
-    });
-  });
+  .superRefine(checkLists);
+
+/**
+ * PATCH /feeds/:id: what is sent replaces what is stored (`headers` as a whole list, with their
+ * values); `enabled: false` pauses the schedule, `schedule: null` leaves "Run now" only.
+ */
+export const updateFeedSchema = z
+  .object({
+    name: feedName.optional(),
+    url: feedUrl.optional(),
+    mappings: feedMappings.optional(),
+    schedule: feedSchedule.optional().transform((s) => (s === undefined ? undefined : s || null)),
+    headers: feedHeaders.optional(),
+    stewardId: feedSteward.optional(),
+    enabled: z.boolean().optional(),
+  })
+  .strict()
+  .superRefine(checkLists)
+  .refine((f) => Object.values(f).some((v) => v !== undefined), 'Send at least one thing to change: name, url, mappings, schedule, headers, stewardId or enabled.');
 
 export type CreateFeedInput = z.input<typeof createFeedSchema>;
 export type CreateFeedBody = z.output<typeof createFeedSchema>;
+export type UpdateFeedBody = z.output<typeof updateFeedSchema>;
 
 export const FEED_OUTCOMES = ['running', 'stored', 'unchanged', 'failed', 'abandoned'] as const;
 export type FeedOutcome = (typeof FEED_OUTCOMES)[number];

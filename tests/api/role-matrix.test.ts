@@ -89,6 +89,8 @@ export const MATRIX: Row[] = [
   { route: 'GET /api/v1/sdmx/data/:flow', path: '/api/v1/sdmx/data/NONE', allow: SIGNED_IN },
   { route: 'GET /api/v1/sdmx/data/:flow/:key', path: '/api/v1/sdmx/data/NONE/all', allow: SIGNED_IN },
   { route: 'POST /api/v1/feeds', body: {}, allow: STEWARDS },
+  { route: 'PATCH /api/v1/feeds/:id', path: '/api/v1/feeds/999999', body: { enabled: false }, allow: STEWARDS },
+  { route: 'DELETE /api/v1/feeds/:id', path: '/api/v1/feeds/999999', allow: STEWARDS },
   { route: 'POST /api/v1/feeds/:id/run', path: '/api/v1/feeds/999999/run', allow: STEWARDS },
   { route: 'GET /api/v1/feeds/:id/runs', path: '/api/v1/feeds/999999/runs', allow: STEWARDS },
   // Analysis: anyone signed in may compute.

@@ -3,8 +3,10 @@
  * refuses a bad schedule in words and reads a good one back in words; the feed is registered,
  * run now from the keyboard (progress, then the outcome announced and focused), and its run
  * records show the vintages stored; a failed run shows its problems by series. At 390 px the page
- * does not scroll sideways.
+ * does not scroll sideways. Its schedule is paused and resumed, and the feed deleted after asking.
  */
+import os from 'node:os';
+import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startFakeSdmxSource, type FakeSdmxSource } from '../../server/sdmx/fake-source.js';
 import type { TestServer } from '../helpers/app.js';
@@ -88,5 +90,29 @@ describe('a steward registers and runs a feed', () => {
     await page.getByRole('heading', { name: 'Feeds', level: 1 }).waitFor();
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
     await page.setViewportSize({ width: 1440, height: 900 });
+  });
+
+  it('pauses and resumes its schedule, then deletes it after asking; the vintage it stored stays', async () => {
+    const { page } = browser;
+    const card = page.getByRole('listitem').filter({ has: page.getByRole('heading', { name: 'Estuary hours worked' }) });
+    await card.getByRole('button', { name: 'Pause schedule' }).click();
+    await expect.poll(() => card.innerText()).toMatch(/— paused/);
+    expect(await card.innerText()).toMatch(/Next run: —/);
+    expect((await t.db('feeds').where('name', 'Estuary hours worked').first()).enabled).toBeFalsy();
+    await page.screenshot({ path: path.join(os.tmpdir(), 'tg-feeds-paused-1440.png'), fullPage: true });
+    await page.setViewportSize({ width: 390, height: 844 });
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(390);
+    await page.screenshot({ path: path.join(os.tmpdir(), 'tg-feeds-paused-390.png'), fullPage: true });
+    await page.setViewportSize({ width: 1440, height: 900 });
+    await card.getByRole('button', { name: 'Resume schedule' }).focus();
+    await page.keyboard.press('Enter');
+    await expect.poll(() => card.innerText()).not.toMatch(/— paused/);
+    expect(await card.innerText()).not.toMatch(/Next run: —/);
+    page.once('dialog', (d) => void d.accept());
+    await card.getByRole('button', { name: 'Delete Estuary hours worked' }).click();
+    await expect.poll(() => page.getByText('No feeds yet').count()).toBe(1);
+    expect(await t.db('feeds').where('name', 'Estuary hours worked').first()).toBeUndefined();
+    const stored = await t.db('vintages as v').join('series as s', 's.id', 'v.series_id').where('s.code', 'FK_HOURS').select('v.number');
+    expect(stored).toHaveLength(1);
   });
 });

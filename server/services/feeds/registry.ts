@@ -1,13 +1,13 @@
 /**
- * Feeds as stored: registering one (checked against the Catalogue and the People), listing them
- * with their last run, and rows turned into the answers of server/schemas/feeds.ts. A feed's
+ * Feeds as stored: registering, changing and removing one (checked against the Catalogue and the
+ * People), listing them with their last run, and rows turned into the answers of server/schemas/feeds.ts. A feed's
  * header values (API keys) are kept for its fetches and never answered again.
  */
 import type { Knex } from 'knex';
 import type { Db } from '../../db.js';
-import { badRequest, notFound } from '../../lib/errors.js';
+import { badRequest, conflict, notFound } from '../../lib/errors.js';
 import { transaction } from '../../lib/retry.js';
-import { nextRuns, scheduleInWords, type CreateFeedBody, type Feed, type FeedRun } from '../../schemas/feeds.js';
+import { latestSlot, nextRuns, scheduleInWords, type CreateFeedBody, type Feed, type FeedRun, type UpdateFeedBody } from '../../schemas/feeds.js';
 import { audit } from '../audit.js';
 import { iso } from '../catalogue/rows.js';
 
@@ -110,12 +110,12 @@ export async function getFeed(db: Db, id: number): Promise<Feed> {
   return (await answerFeeds(db, rows))[0];
 }
 
-/** Registers a feed: its series must be in the Catalogue and its steward must hold the steward role. */
-export async function createFeed(db: Db, actorId: number, body: CreateFeedBody, ip?: string): Promise<Feed> {
-  const codes = body.mappings.map((m) => m.series.toUpperCase());
+/** The mappings with each series code as the Catalogue spells it; 400 naming the codes it lacks. */
+async function catalogueMappings(db: Db, mappings: { key: string; series: string }[]) {
+  const codes = mappings.map((m) => m.series.toUpperCase());
   const found: { code: string }[] = await db('series').whereIn(db.raw('UPPER(code)') as never, codes).select('code');
   const known = new Map(found.map((s) => [s.code.toUpperCase(), s.code]));
-  const missing = body.mappings.map((m, i) => ({ m, i })).filter(({ m }) => !known.has(m.series.toUpperCase()));
+  const missing = mappings.map((m, i) => ({ m, i })).filter(({ m }) => !known.has(m.series.toUpperCase()));
   if (missing.length) {
     throw badRequest(
       'unknown_series',
@@ -123,15 +123,32 @@ export async function createFeed(db: Db, actorId: number, body: CreateFeedBody, 
       missing.map(({ m, i }) => ({ path: `mappings.${i}.series`, message: `no series ${m.series}` })),
     );
   }
-  const stewardId = body.stewardId ?? actorId;
+  return mappings.map((m) => ({ key: m.key, series: known.get(m.series.toUpperCase())! }));
+}
+
+/** 400 unless `stewardId` is an active person with the steward role. */
+async function checkSteward(db: Db, stewardId: number) {
   const isSteward = await db('user_roles as r').join('users as u', 'u.id', 'r.user_id').where({ 'r.user_id': stewardId, 'r.role': 'steward' }).where('u.status', 'active').first();
   if (!isSteward) throw badRequest('not_a_steward', 'The feed’s steward must be a person with the steward role; failures are mailed to them.', [{ path: 'stewardId', message: 'not a steward' }]);
-  if (await db('feeds').where({ name: body.name }).first()) throw badRequest('duplicate_name', `A feed is already called “${body.name}”; choose another name.`, [{ path: 'name', message: 'name taken' }]);
+}
+
+async function checkName(db: Db, name: string, except?: number) {
+  const q = db('feeds').where({ name });
+  if (except) q.whereNot('id', except);
+  if (await q.first()) throw badRequest('duplicate_name', `A feed is already called “${name}”; choose another name.`, [{ path: 'name', message: 'name taken' }]);
+}
+
+/** Registers a feed: its series must be in the Catalogue and its steward must hold the steward role. */
+export async function createFeed(db: Db, actorId: number, body: CreateFeedBody, ip?: string): Promise<Feed> {
+  const mappings = await catalogueMappings(db, body.mappings);
+  const stewardId = body.stewardId ?? actorId;
+  await checkSteward(db, stewardId);
+  await checkName(db, body.name);
   const id = await transaction(db, async (trx) => {
     const [feedId] = await trx('feeds').insert({
       name: body.name,
       url: body.url,
-      mappings: JSON.stringify(body.mappings.map((m) => ({ key: m.key, series: known.get(m.series.toUpperCase())! }))),
+      mappings: JSON.stringify(mappings),
       headers: JSON.stringify(body.headers),
       schedule: body.schedule,
       enabled: body.enabled,
@@ -139,10 +156,50 @@ export async function createFeed(db: Db, actorId: number, body: CreateFeedBody, 
       created_by: actorId,
     });
     await trx('feed_leases').insert({ feed_id: feedId, holder: null, expires_at: null, last_slot: null });
-    await audit(trx, { actorId, action: 'feed.create', targetType: 'feed', targetId: feedId, details: { name: body.name, url: body.url, series: codes.length }, ip });
+    await audit(trx, { actorId, action: 'feed.create', targetType: 'feed', targetId: feedId, details: { name: body.name, url: body.url, series: mappings.length }, ip });
     return feedId as number;
   });
   return getFeed(db, id);
+}
+
+/**
+ * Changes a feed (checked as at registration). A feed resumed, or given a new schedule, runs at
+ * its next scheduled time, not at once for a time that passed while it was paused.
+ */
+export async function updateFeed(db: Db, actorId: number, id: number, body: UpdateFeedBody, ip?: string): Promise<Feed> {
+  const before = await getStoredFeed(db, id);
+  const mappings = body.mappings ? await catalogueMappings(db, body.mappings) : undefined;
+  if (body.stewardId !== undefined) await checkSteward(db, body.stewardId);
+  if (body.name !== undefined) await checkName(db, body.name, id);
+  const change = {
+    ...(body.name !== undefined ? { name: body.name } : {}),
+    ...(body.url !== undefined ? { url: body.url } : {}),
+    ...(mappings ? { mappings: JSON.stringify(mappings) } : {}),
+    ...(body.headers ? { headers: JSON.stringify(body.headers) } : {}),
+    ...(body.schedule !== undefined ? { schedule: body.schedule } : {}),
+    ...(body.stewardId !== undefined ? { steward_id: body.stewardId } : {}),
+    ...(body.enabled !== undefined ? { enabled: body.enabled } : {}),
+  };
+  const schedule = body.schedule !== undefined ? body.schedule : before.schedule;
+  const restart = schedule && (body.enabled === true || (body.schedule !== undefined && body.schedule !== before.schedule));
+  await transaction(db, async (trx) => {
+    await trx('feeds').where({ id }).update(change);
+    if (restart) await trx('feed_leases').where('feed_id', id).update({ last_slot: latestSlot(schedule, new Date()) });
+    // Which fields changed, never the header values.
+    await audit(trx, { actorId, action: 'feed.update', targetType: 'feed', targetId: id, details: { fields: Object.keys(body).filter((k) => body[k as keyof UpdateFeedBody] !== undefined) }, ip });
+  });
+  return getFeed(db, id);
+}
+
+/** Removes a feed and its run records (the vintages its runs stored stay); 409 while it runs. */
+export async function deleteFeed(db: Db, actorId: number, id: number, ip?: string): Promise<void> {
+  const feed = await getStoredFeed(db, id);
+  await transaction(db, async (trx) => {
+    const lease = await trx('feed_leases').where('feed_id', id).forUpdate().first();
+    if (lease?.holder && lease.expires_at && new Date(lease.expires_at) > new Date()) throw conflict('feed_running', `“${feed.name}” is running now; delete it once the run has finished.`);
+    await trx('feeds').where({ id }).delete();
+    await audit(trx, { actorId, action: 'feed.delete', targetType: 'feed', targetId: id, details: { name: feed.name, url: feed.url }, ip });
+  });
 }
 
 export async function listRuns(db: Db, feedId: number, limit = 100): Promise<FeedRun[]> {

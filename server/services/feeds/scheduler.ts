@@ -6,17 +6,9 @@
  * runs once at the next tick (not once per missed time). The scheduler keeps nothing in memory.
  */
 import { Cron } from 'croner';
-import { SCHEDULE_ZONE, checkSchedule } from '../../schemas/feeds.js';
+import { SCHEDULE_ZONE, latestSlot } from '../../schemas/feeds.js';
 import { toStoredFeed } from './registry.js';
 import { runFeed, type FeedDeps } from './run.js';
-
-/** The latest time the schedule names at or before `now`, or null. */
-export function latestSlot(schedule: string, now: Date): Date | null {
-  if (checkSchedule(schedule)) return null;
-  // croner reads the reference to the second and looks strictly before it: a second on, so that a
-  // tick at 09:30:00.004 finds 09:30 itself.
-  return new Cron(schedule, { paused: true, timezone: SCHEDULE_ZONE }).previousRuns(1, new Date(Math.floor(now.getTime() / 1000) * 1000 + 1000))[0] ?? null;
-}
 
 /** Runs every feed whose scheduled time has come; returns the ids of the feeds this tick ran. */
 export async function tickFeeds(deps: FeedDeps, now = new Date()): Promise<number[]> {

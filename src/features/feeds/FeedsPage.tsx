@@ -3,7 +3,7 @@ import { useSearchParams } from 'react-router-dom';
 import { FEED_OUTCOME_WORDS } from '@schemas/feeds';
 import { useAnnounce } from '@/components/Announcer';
 import { EmptyState, ErrorNote, PageHeader, Progress, Spinner, formatDate } from '@/components/ui';
-import { useFeeds, useRunFeed, type Feed } from './api';
+import { useDeleteFeed, useFeeds, useRunFeed, useUpdateFeed, type Feed } from './api';
 import { FeedForm } from './FeedForm';
 import { FeedRuns, OutcomeTag } from './FeedRuns';
 
@@ -38,7 +38,15 @@ export function FeedsPage() {
 
 function FeedCard({ feed, open, onToggle }: { feed: Feed; open: boolean; onToggle: () => void }) {
   const run = useRunFeed(feed.id);
+  const update = useUpdateFeed(feed.id);
+  const remove = useDeleteFeed(feed.id);
   const announce = useAnnounce();
+  const pause = () =>
+    update.mutate({ enabled: !feed.enabled }, { onSuccess: (f) => announce(`Feed ${feed.name}: ${f.enabled ? `schedule resumed; next run ${f.nextRunAt ? formatDate(f.nextRunAt, true) : 'on demand only'}` : 'schedule paused; Run now still works'}.`) });
+  const removeFeed = () => {
+    if (!confirm(`Delete the feed “${feed.name}” and its run records? The vintages it stored stay in the Catalogue.`)) return;
+    remove.mutate(undefined, { onSuccess: () => announce(`Feed ${feed.name} deleted.`) });
+  };
   const result = useRef<HTMLParagraphElement>(null);
   const [lastResult, setLastResult] = useState<string | null>(null);
   useEffect(() => {
@@ -70,6 +78,14 @@ function FeedCard({ feed, open, onToggle }: { feed: Feed; open: boolean; onToggl
           <button className="btn-quiet" aria-expanded={open} aria-controls={`feed-${feed.id}-runs`} onClick={onToggle}>
             {open ? 'Hide runs' : 'Runs'}
           </button>
+          {feed.schedule && (
+            <button className="btn-quiet" disabled={update.isPending} onClick={pause}>
+              {feed.enabled ? 'Pause schedule' : 'Resume schedule'}
+            </button>
+          )}
+          <button className="btn-danger" aria-label={`Delete ${feed.name}`} disabled={remove.isPending || run.isPending} onClick={removeFeed}>
+            Delete
+          </button>
         </div>
       </div>
       <dl className="mt-3 grid gap-x-6 gap-y-1 text-sm sm:grid-cols-2">
@@ -78,6 +94,7 @@ function FeedCard({ feed, open, onToggle }: { feed: Feed; open: boolean; onToggl
           <dd className="inline">
             {feed.scheduleWords}
             {feed.schedule && <span className="ml-1 font-mono text-xs text-ink-faint">({feed.schedule})</span>}
+            {feed.schedule && !feed.enabled && <strong className="ml-1">— paused</strong>}
           </dd>
         </div>
         <div>
@@ -109,7 +126,7 @@ function FeedCard({ feed, open, onToggle }: { feed: Feed; open: boolean; onToggl
         </div>
       )}
       <div className="mt-3">
-        <ErrorNote error={run.error} />
+        <ErrorNote error={run.error ?? update.error ?? remove.error} />
       </div>
       {lastResult && !run.isPending && (
         <p ref={result} tabIndex={-1} data-testid="feed-run-result" className="mt-3 rounded border border-hairline bg-paper-deep px-3 py-2 text-sm">

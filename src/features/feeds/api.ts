@@ -2,7 +2,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState } from 'react';
 import { api } from '@/lib/api';
 import { apiStream, type ProgressEvent } from '@/lib/ndjson';
-import type { CreateFeedInput, Feed, FeedRun } from '@schemas/feeds';
+import type { CreateFeedInput, Feed, FeedRun, UpdateFeedBody } from '@schemas/feeds';
 
 export type { Feed, FeedRun };
 
@@ -15,6 +15,24 @@ export function useCreateFeed() {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: (body: CreateFeedInput) => api<Feed>('/feeds', { method: 'POST', json: body }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: ['feeds'] }),
+  });
+}
+
+/** Changes a feed (PATCH: pause with enabled false, resume with true). */
+export function useUpdateFeed(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: Partial<UpdateFeedBody>) => api<Feed>(`/feeds/${id}`, { method: 'PATCH', json: body }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: ['feeds'] }),
+  });
+}
+
+/** Removes a feed with its run records (the vintages it stored stay). */
+export function useDeleteFeed(id: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: () => api<void>(`/feeds/${id}`, { method: 'DELETE' }),
     onSuccess: () => qc.invalidateQueries({ queryKey: ['feeds'] }),
   });
 }
