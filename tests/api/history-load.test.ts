@@ -185,6 +185,30 @@ describe('long CSV', () => {
   });
 });
 
+describe('long XLSX', () => {
+  it('reads release dates kept as date cells, and stores what the same table as CSV stores', async () => {
+    const rows = (date: (d: string) => Cell): Cell[][] => {
+      const out: Cell[][] = [['period', 'value', 'release date']];
+      for (const [asOf, n] of [['2021-01-28', 8], ['2021-04-29', 9], ['2021-07-29', 10]] as const) for (let i = 0; i < n; i++) out.push([`${2019 + Math.floor(i / 4)}-Q${(i % 4) + 1}`, 100 + i * 0.5 + (n - 8) * 0.1, date(asOf)]);
+      return out;
+    };
+    const viaCsv = await newSeries('T_HIST_LONG_CSV');
+    const viaXlsx = await newSeries('T_HIST_LONG_XLSX');
+    await post(steward, viaCsv, csvOf(rows((d) => d)), 'long.csv').expect(201);
+    const res = await post(steward, viaXlsx, await workbook([{ name: 'Releases', rows: rows(utc) }]), 'long.xlsx').expect(201);
+    expect(res.body.preview).toMatchObject({ format: 'xlsx', layout: 'long', headerRow: 1, errors: 0 });
+    expect(res.body.vintages.map((v: { number: number; asOf: string; rowCount: number }) => [v.number, v.asOf, v.rowCount])).toEqual([
+      [1, '2021-01-28', 8],
+      [2, '2021-04-29', 9],
+      [3, '2021-07-29', 10],
+    ]);
+    const checksums = async (code: string) => (await t.db('vintages as v').join('series as s', 's.id', 'v.series_id').where('s.code', code).orderBy('v.number').select('v.checksum')).map((r) => r.checksum);
+    expect(await checksums(viaXlsx)).toEqual(await checksums(viaCsv));
+    const v3 = await viewer.get(`/api/v1/series/${viaXlsx}/observations?asOf=2021-07-29`).expect(200);
+    expect([v3.body.periods.at(-1), v3.body.values.at(-1)]).toEqual(['2021-Q2', 104.7]);
+  });
+});
+
 describe('history out', () => {
   it('CSV and XLSX load back into a new series as identical vintages', async () => {
     const code = await newSeries('T_HIST_OUT');
