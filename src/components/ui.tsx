@@ -156,3 +156,13 @@ export function Tabs<T extends string>({ tabs, value, onChange, label, children 
     </>
   );
 }
+
+/** One figure of a preview's summary, inside a <dl>: a label and its value (`numeric`: set in tabular figures). */
+export function Stat({ label, value, numeric = false }: { label: string; value: ReactNode; numeric?: boolean }) {
+  return (
+    <div>
+      <dt className="label">{label}</dt>
+      <dd className={`${numeric ? 'num text-left ' : ''}text-base font-semibold`}>{value}</dd>
+    </div>
+  );
+}

@@ -7,7 +7,7 @@ import { useState } from 'react';
 import { fmt } from '@/components/charts/echarts';
 import { DataTable } from '@/components/DataTable';
 import { ScrollRegion } from '@/components/ScrollRegion';
-import { ErrorNote, Field, Progress } from '@/components/ui';
+import { ErrorNote, Field, Progress, Stat } from '@/components/ui';
 import { useAnnounce } from '@/components/Announcer';
 import { useHistoryLoad, type HistoryPreview, type HistoryVintage, type Series } from './api';
 import { ProblemsTable } from './LoadPanel';
@@ -179,15 +179,6 @@ export function HistoryPanel({ series, onStored }: { series: Series; onStored: (
           )}
         </section>
       )}
-    </div>
-  );
-}
-
-function Stat({ label, value }: { label: string; value: React.ReactNode }) {
-  return (
-    <div>
-      <dt className="label">{label}</dt>
-      <dd className="text-base font-semibold">{value}</dd>
     </div>
   );
 }

@@ -5,7 +5,7 @@ import { fmt } from '@/components/charts/echarts';
 import { asLoaded } from '@schemas/numbers';
 import { revisionCell } from './RevisionsPanel';
 import { DataTable, hiddenHeader } from '@/components/DataTable';
-import { ErrorNote, Field, Progress } from '@/components/ui';
+import { ErrorNote, Field, Progress, Stat } from '@/components/ui';
 import type { UploadProgress } from '@/lib/upload';
 import { useLoad, useObservations, type LoadPreview, type Problem, type Series } from './api';
 
@@ -112,12 +112,12 @@ export function LoadPanel({ series, onStored }: { series: Series & { vintageCoun
         <section className="card space-y-4 p-4" data-testid="load-preview" aria-label="Preview of the load">
           <h2 className="font-heading text-lg font-bold">Preview: nothing is stored until you confirm</h2>
           <dl className="grid grid-cols-2 gap-3 text-sm md:grid-cols-6">
-            <Stat label="Rows" value={p.rowCount} />
-            <Stat label="Periods" value={p.firstPeriod ? `${p.firstPeriod} – ${p.lastPeriod}` : '—'} />
-            <Stat label="New periods" value={p.changes?.new ?? '—'} />
-            <Stat label="Revised" value={p.changes?.revised ?? '—'} />
-            <Stat label="Removed" value={p.changes?.removed ?? '—'} />
-            <Stat label="Mean abs. revision" value={p.changes?.meanAbsoluteRevision != null ? fmt(p.changes.meanAbsoluteRevision) : '—'} />
+            <Stat numeric label="Rows" value={p.rowCount} />
+            <Stat numeric label="Periods" value={p.firstPeriod ? `${p.firstPeriod} – ${p.lastPeriod}` : '—'} />
+            <Stat numeric label="New periods" value={p.changes?.new ?? '—'} />
+            <Stat numeric label="Revised" value={p.changes?.revised ?? '—'} />
+            <Stat numeric label="Removed" value={p.changes?.removed ?? '—'} />
+            <Stat numeric label="Mean abs. revision" value={p.changes?.meanAbsoluteRevision != null ? fmt(p.changes.meanAbsoluteRevision) : '—'} />
           </dl>
           <ProblemsTable problems={[...preview.problems, ...p.problems]} />
           {p.observations && latest.data && (
@@ -154,15 +154,6 @@ export function LoadPanel({ series, onStored }: { series: Series & { vintageCoun
           )}
         </section>
       )}
-    </div>
-  );
-}
-
-function Stat({ label, value }: { label: string; value: React.ReactNode }) {
-  return (
-    <div>
-      <dt className="label">{label}</dt>
-      <dd className="num text-left text-base font-semibold">{value}</dd>
     </div>
   );
 }
