@@ -65,6 +65,9 @@ describe('range studies', () => {
 
     // A range exhibit drafted from it: the figure's legend and text alternative name the methods; both cautions.
     await page.getByRole('link', { name: 'Draft an exhibit' }).click();
+    // No cycle-or-trend choice for a range: the form says what the chart draws.
+    await page.getByText(/Chart: the range of gap estimates across the study’s 4 methods/).waitFor();
+    expect(await page.getByLabel('Chart').count()).toBe(0);
     await page.getByRole('button', { name: 'Draft the exhibit' }).click();
     await page.waitForURL(/\/exhibits\/\d+$/);
     const figure = page.getByTestId('exhibit-figure');

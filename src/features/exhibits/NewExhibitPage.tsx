@@ -3,6 +3,7 @@ import { useForm } from 'react-hook-form';
 import { useNavigate, useSearchParams } from 'react-router-dom';
 import { z } from 'zod';
 import { ErrorNote, Field, PageHeader } from '@/components/ui';
+import { useStudy } from '@/features/studies/api';
 import { useExhibitMutations } from './api';
 
 const schema = z.object({ title: z.string().trim().min(1, 'Give it a title.').max(200), subtitle: z.string().max(300).optional(), notes: z.string().max(5000).optional(), chartKind: z.enum(['cycle', 'trend']) });
@@ -13,6 +14,9 @@ export function NewExhibitPage() {
   const studyId = Number(params.get('studyId')) || undefined;
   const panelId = Number(params.get('panelId')) || undefined;
   const { create } = useExhibitMutations();
+  // A range study draws its range: there is no cycle-or-trend choice to make.
+  const study = useStudy(studyId);
+  const range = study.data?.kind === 'range';
   const navigate = useNavigate();
   const form = useForm<z.infer<typeof schema>>({ resolver: zodResolver(schema), defaultValues: { title: params.get('title') ?? '', subtitle: '', notes: '', chartKind: 'cycle' } });
   return (
@@ -27,7 +31,8 @@ export function NewExhibitPage() {
         <Field label="Subtitle" htmlFor="nx-subtitle">
           <input id="nx-subtitle" className="field" {...form.register('subtitle')} />
         </Field>
-        {studyId && (
+        {range && <p className="text-sm">Chart: the range of gap estimates across the study’s {study.data?.methods?.length ?? ''} methods, with their median.</p>}
+        {studyId && !range && (
           <Field label="Chart" htmlFor="nx-kind">
             <select id="nx-kind" className="field" {...form.register('chartKind')}>
               <option value="cycle">the cycle (gap)</option>
