@@ -76,4 +76,17 @@ describe('the range chart', () => {
     expect(d.lines[1].values).toEqual([2, 0.5]);
     expect(d.unit).toBe('% of trend');
   });
+
+  it('shades a chronology’s contractions underneath, labelled with its name, and its text alternative still reads only the lines', async () => {
+    const { rangeChart } = await import('../../server/schemas/charts/range.js');
+    const { chartData } = await import('../../server/schemas/chart-text.js');
+    const { BAND_SERIES_ID } = await import('../../server/schemas/charts/axes.js');
+    const lines = { periods: ['2020-Q1', '2020-Q2', '2020-Q3', '2020-Q4'], median: [0.5, -1, -2, 0], min: [-1, -2, -3, -1], max: [2, 0.5, -1, 1], items: [{ name: 'A', values: [-1, 0.5, -3, 1] }] };
+    const plain = rangeChart(lines) as { series: { id?: string }[]; xAxis: unknown };
+    expect(plain.series.some((x) => x.id === BAND_SERIES_ID)).toBe(false);
+    const shaded = rangeChart({ ...lines, contractions: { name: 'Invented chronology', ranges: [{ from: 1, to: 2 }] } }) as { series: { id?: string }[] };
+    const band = shaded.series.find((x) => x.id === BAND_SERIES_ID)!;
+    expect(JSON.stringify(band)).toContain('Invented chronology');
+    expect(chartData(shaded).lines.map((l) => l.name)).toEqual(chartData(plain).lines.map((l) => l.name));
+  });
 });

@@ -18,7 +18,7 @@ export function exhibitChart(s: Snapshot) {
   const units = s.text.units ?? undefined;
   if (s.chartKind === 'range' && s.range) {
     // The legend names each method (the lines' labels), the band and the median.
-    return rangeChart({ periods: s.range.periods, unit: units, median: s.range.median, min: s.range.min, max: s.range.max, items: s.lines.map((l) => ({ name: l.label, values: l.values })) });
+    return rangeChart({ periods: s.range.periods, unit: units, median: s.range.median, min: s.range.min, max: s.range.max, items: s.lines.map((l) => ({ name: l.label, values: l.values })), contractions });
   }
   if (s.chartKind === 'compare') {
     return compareChart({ zeroLine: true, unit: units, contractions, shadeLast: s.endOfSamplePeriods, lines: s.lines.map((l) => ({ name: l.label, periods: l.periods, values: l.values })) });

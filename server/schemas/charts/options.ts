@@ -49,12 +49,17 @@ interface Shading {
   contractions?: ContractionMarks;
 }
 
+/** A chronology's contractions as shaded bands, the first labelled with the chronology's name. */
+export function contractionBands(c: ContractionMarks | undefined): PeriodBand[] {
+  return (c?.ranges ?? []).map((r, i) => ({ ...r, color: COLORS.contraction, label: i === 0 ? c!.name : undefined, labelPosition: 'insideTopLeft' }));
+}
+
 /** The bands of a chart: contractions first (underneath), then the end of sample and the extension. */
 function bandsOf(periods: string[], values: Num[], s: Shading): (PeriodBand | undefined)[] {
   const ext = s.extension;
   const observed = ext ? values.slice(0, ext.from) : values;
   return [
-    ...(s.contractions?.ranges ?? []).map((r, i) => ({ ...r, color: COLORS.contraction, label: i === 0 ? s.contractions!.name : undefined, labelPosition: 'insideTopLeft' })),
+    ...contractionBands(s.contractions),
     endOfSampleBand(observed, s.shadeLast),
     ext ? { from: ext.from, to: Math.min(periods.length - 1, ext.from + ext.periods - 1), color: 'rgba(74,90,112,0.10)', label: ext.label, labelPosition: 'insideTop' } : undefined,
   ];

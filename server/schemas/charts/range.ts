@@ -7,8 +7,8 @@
  * never the difference. The revision band uses the same drawing.
  */
 import { alignByPeriod } from '../align.js';
-import { lineSeries, timeAxis, valueAxis, zoom, type Num } from './axes.js';
-import { baseOption } from './options.js';
+import { bandLayer, lineSeries, timeAxis, valueAxis, zoom, type Num } from './axes.js';
+import { baseOption, contractionBands, type ContractionMarks } from './options.js';
 import { COLORS, COMPARE_COLORS } from './palette.js';
 
 /** The filler series of a band: id prefix the text alternative skips. */
@@ -31,22 +31,26 @@ export interface RangeLines {
   min: Num[];
   max: Num[];
   unit?: string;
+  /** A reference chronology's contractions, shaded underneath. */
+  contractions?: ContractionMarks;
 }
 
 export function rangeChart(r: RangeLines) {
   const zero = { silent: true, symbol: 'none', lineStyle: { color: COLORS.ink, width: 1, type: 'solid' }, label: { show: false }, data: [{ yAxis: 0 }] };
   const band = bandSeries('range across methods', r.min, r.max, COLORS.inkSoft, 'rgba(74,90,112,0.16)');
   const methodNames = r.items.map((it) => it.name);
+  const shading = bandLayer(r.periods.length, contractionBands(r.contractions), false);
   return {
     ...baseOption(),
     legend: { ...baseOption().legend, data: ['range across methods', 'median', ...methodNames] },
-    xAxis: timeAxis(r.periods),
+    xAxis: shading.axis ? [timeAxis(r.periods), shading.axis] : timeAxis(r.periods),
     yAxis: valueAxis(r.unit, { scale: false }),
     dataZoom: zoom(r.periods.length),
     series: [
       ...band,
       ...r.items.map((it, i) => lineSeries(it.name, it.values, COMPARE_COLORS[(i + 1) % COMPARE_COLORS.length], 1, { lineStyle: { opacity: 0.8 } })),
       lineSeries('median', r.median, COLORS.ink, 2.5, { markLine: zero, z: 3 }),
+      ...shading.series,
     ],
   };
 }
