@@ -44,3 +44,26 @@ export function toJsonResponse(r: DecomposeResult): DecomposeJson {
     diagnostics: { ...r.diagnostics },
   };
 }
+
+const JSON_KEYS = new Set(['method', 'params', 'transform', 'frequency', 'periods', 'input', 'trend', 'cycle', 'extension', 'warnings', 'diagnostics']);
+const floats = (a: (number | null)[]) => Float64Array.from(a, (v) => (v === null ? NaN : v));
+
+/** A result back from its JSON form (as a worker thread sends it): null becomes NaN; keys other than the result's own are extra series. */
+export function fromJsonResponse(j: DecomposeJson): DecomposeResult {
+  const series: Record<string, Float64Array> = {};
+  for (const [k, v] of Object.entries(j)) if (!JSON_KEYS.has(k) && Array.isArray(v)) series[k] = floats(v as (number | null)[]);
+  return {
+    method: j.method,
+    params: j.params as DecomposeResult['params'],
+    transform: j.transform as DecomposeResult['transform'],
+    frequency: j.frequency as DecomposeResult['frequency'],
+    ...(j.periods ? { periods: j.periods } : {}),
+    input: floats(j.input),
+    trend: floats(j.trend),
+    cycle: floats(j.cycle),
+    series,
+    ...(j.extension ? { extension: j.extension as DecomposeResult['extension'] } : {}),
+    warnings: j.warnings,
+    diagnostics: j.diagnostics as DecomposeResult['diagnostics'],
+  };
+}

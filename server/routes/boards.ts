@@ -4,7 +4,7 @@ import { idParam, type RouteSpec } from '../lib/http.js';
 import { createBoardSchema, panelSchema, reorderSchema, updateBoardSchema, updatePanelSchema } from '../schemas/boards.js';
 import * as boards from '../services/boards.js';
 
-export function boardRoutes({ db }: AppDeps): RouteSpec[] {
+export function boardRoutes({ db, pool }: AppDeps): RouteSpec[] {
   const ids = (p: Record<string, string>) => [idParam(p.id, 'The board'), idParam(p.panelId, 'The panel')] as const;
   return [
     { method: 'get', path: '/boards', access: 'signedIn', summary: 'Boards shared with the team, and one’s own', tags: ['boards'], handler: async ({ auth }) => ({ items: await boards.listBoards(db, auth!.user) }) },
@@ -30,7 +30,7 @@ export function boardRoutes({ db }: AppDeps): RouteSpec[] {
       access: 'signedIn',
       summary: 'What a panel shows, computed from the current data, with the vintages it uses',
       tags: ['boards'],
-      handler: async ({ params, auth }) => boards.panelData(db, await boards.getPanel(db, auth!.user, ...ids(params))),
+      handler: async ({ params, auth }) => boards.panelData(db, await boards.getPanel(db, auth!.user, ...ids(params)), pool),
     },
   ];
 }

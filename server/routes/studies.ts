@@ -43,7 +43,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'The result a study would give, without saving it (the study page recomputes with this)',
       tags: ['studies'],
       body: studySpecSchema,
-      handler: ({ body }) => computeSpec(db, body),
+      handler: ({ body }) => computeSpec(db, body, { pool: deps.pool }),
     },
     {
       method: 'post',
@@ -52,7 +52,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'Cycles of several methods or series on aligned periods, with cross-correlations against a reference',
       tags: ['studies'],
       body: compareSchema,
-      handler: ({ body }) => compare(db, body),
+      handler: ({ body }) => compare(db, body, deps.pool),
     },
     {
       method: 'get',
@@ -116,7 +116,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['studies'],
       query: z.object({ format: z.enum(['csv', 'xlsx']).default('csv') }),
       raw: true,
-      handler: async ({ params, query, res }) => sendFile(res, await studyExport(db, idParam(params.id, 'The study'), query.format)),
+      handler: async ({ params, query, res }) => sendFile(res, await studyExport(db, idParam(params.id, 'The study'), query.format, deps.pool)),
     },
     {
       method: 'get',
@@ -125,7 +125,7 @@ export function studyRoutes(deps: AppDeps): RouteSpec[] {
       summary: 'The study as a rerunnable Python script: fetches its vintage (token from TIDEGAUGE_TOKEN), recomputes with statsmodels or POST /decompose, prints the largest difference',
       tags: ['studies'],
       raw: true,
-      handler: async ({ params, res }) => sendFile(res, await studyScript(db, idParam(params.id, 'The study'), deps.config.publicOrigin)),
+      handler: async ({ params, res }) => sendFile(res, await studyScript(db, idParam(params.id, 'The study'), deps.config.publicOrigin, deps.pool)),
     },
   ];
 }

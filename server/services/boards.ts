@@ -11,6 +11,7 @@ import type { Board, Panel, PanelBody, PanelData } from '../schemas/boards.js';
 export type { Board, Panel, PanelData };
 import type { Study, StudyResult } from '../schemas/studies.js';
 import { computeSpec, rangeStudyResult } from './studies/results.js';
+import type { AnalysisPool } from '../workers/pool.js';
 import { getStudy } from './studies/studies.js';
 import { transaction } from '../lib/retry.js';
 
@@ -179,20 +180,22 @@ export async function reorderPanels(db: Db, user: PublicUser, boardId: number, p
 
 // ------------------------------------------------------------------ panel data
 
-export async function panelData(db: Db, panel: Panel): Promise<PanelData> {
+export async function panelData(db: Db, panel: Panel, pool?: AnalysisPool): Promise<PanelData> {
   const studies = await Promise.all(panel.studyIds.map((id) => getStudy(db, id)));
-  if (studies[0]?.kind === 'range') return rangePanel(db, panel, studies[0]);
+  if (studies[0]?.kind === 'range') return rangePanel(db, panel, studies[0], pool);
   const lines: PanelData['lines'] = [];
   const results: StudyResult[] = [];
   if (panel.compareBy === 'vintages') {
     const s = studies[0];
-    for (const v of panel.vintages ?? []) {
-      const r = await computeSpec(db, { ...s, vintage: v });
+    // Computed side by side (on the worker threads when slow), listed in the panel's order.
+    const byVintage = await Promise.all((panel.vintages ?? []).map((v) => computeSpec(db, { ...s, vintage: v }, { pool })));
+    for (const [k, v] of (panel.vintages ?? []).entries()) {
+      const r = byVintage[k];
       results.push(r);
       lines.push({ label: `vintage ${v} (${r.asOf})`, studyId: s.id, periods: r.periods, values: r.cycle, vintage: v, methodLine: r.methodLine });
     }
   } else {
-    for (const s of studies) results.push(await computeSpec(db, s));
+    results.push(...(await Promise.all(studies.map((s) => computeSpec(db, s, { pool })))));
     studies.forEach((s, k) => {
       const r = results[k];
       const label = panel.kind === 'compare' ? lineLabel(results, r) : s.title;
@@ -254,8 +257,8 @@ async function freshnessOf(db: Db, panel: Panel, studies: Study[]) {
 }
 
 /** A panel of one range study: the range across its methods, its methods' cycles as the lines. */
-async function rangePanel(db: Db, panel: Panel, s: Study): Promise<PanelData> {
-  const r = await rangeStudyResult(db, undefined, s);
+async function rangePanel(db: Db, panel: Panel, s: Study, pool: AnalysisPool | undefined): Promise<PanelData> {
+  const r = await rangeStudyResult(db, pool, s);
   const series = { id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source };
   return {
     panelId: panel.id,

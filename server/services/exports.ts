@@ -4,6 +4,7 @@
  * for decompositions, the caution line. Routes send the file (lib/http.ts sendFile).
  */
 import type { Db } from '../db.js';
+import type { AnalysisPool } from '../workers/pool.js';
 import { buildExport, type ExportFile, type ExportTable } from '../importers/export.js';
 import { conflict } from '../lib/errors.js';
 import { CAUTION_LINE, RANGE_CAUTION } from '../schemas/cautions.js';
@@ -79,10 +80,10 @@ const computed = (header: string) => ({ header, kind: 'number' as const, digits:
 const PRECISION_NOTE = `computed values to ${COMPUTED_DIGITS} significant digits; loaded values as stored`;
 
 /** A study's numbers with the method line and the vintage stamp on every row; a range study's, each method's cycle and the range across them. */
-export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx'): Promise<ExportFile> {
+export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx', pool?: AnalysisPool): Promise<ExportFile> {
   const study = await getStudy(db, studyId);
-  if (study.kind === 'range') return rangeStudyExport(await rangeStudyResult(db, undefined, study), format);
-  const r = await studyResult(db, studyId);
+  if (study.kind === 'range') return rangeStudyExport(await rangeStudyResult(db, pool, study), format);
+  const r = await studyResult(db, studyId, pool);
   const h = decompositionHeaders(r.transform, r.series.unit, r.unitOfCycle);
   const table: ExportTable = {
     csvAbout: true,

@@ -15,6 +15,8 @@ export interface AnalysisPool {
   threads: number;
   /** Tasks queued or running (the shutdown waits for them). */
   readonly active: number;
+  /** Tasks finished since the pool was made, failed or not. */
+  readonly completed: number;
 }
 
 export function createAnalysisPool(threads: number): AnalysisPool {
@@ -33,14 +35,21 @@ export function createAnalysisPool(threads: number): AnalysisPool {
       niceIncrement: 10,
     }));
   let active = 0;
+  let completed = 0;
   const track = <T>(work: Promise<T>): Promise<T> => {
     active++;
-    return work.finally(() => active--);
+    return work.finally(() => {
+      active--;
+      completed++;
+    });
   };
   return {
     threads: n,
     get active() {
       return active;
+    },
+    get completed() {
+      return completed;
     },
     run: (task) => track(get().run(task) as Promise<string[]>),
     runSingle: (task) => track(get().run(task) as Promise<SingleResult>),

@@ -18,12 +18,12 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
   let sourceLine = body.sourceLine ?? null;
   if (body.studyId) {
     const s = await getStudy(db, body.studyId);
-    const r = s.kind === 'range' ? await rangeStudyResult(db, undefined, s) : await computeSpec(db, s);
+    const r = s.kind === 'range' ? await rangeStudyResult(db, deps.pool, s) : await computeSpec(db, s, { pool: deps.pool });
     units ??= r.unitOfCycle;
     sourceLine ??= r.series.source;
   } else {
     const panel = await panelById(db, user, body.panelId!);
-    const data = await panelData(db, panel);
+    const data = await panelData(db, panel, deps.pool);
     units ??= data.unit;
     sourceLine ??= [...new Set(data.series.map((s) => s.source))].join('; ');
   }

@@ -6,6 +6,7 @@
  */
 import type { Knex } from 'knex';
 import type { Config } from '../../config.js';
+import type { AnalysisPool } from '../../workers/pool.js';
 import type { Db } from '../../db.js';
 import { HttpError, notFound } from '../../lib/errors.js';
 import type { Mailer } from '../../mail/mailer.js';
@@ -20,6 +21,8 @@ export interface ExhibitDeps {
   db: Db;
   config: Config;
   mailer: Mailer;
+  /** Worker threads for decompositions too slow for the request thread. */
+  pool?: AnalysisPool;
 }
 
 const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
@@ -98,7 +101,7 @@ export async function getExhibit(deps: ExhibitDeps, user: PublicUser, id: number
   const settings = await getSettings(db);
   const editable = (row.status === 'draft' || row.status === 'returned') && row.author_id === user.id;
   // A draft (or a returned exhibit being reworked) shows its live content; otherwise the frozen snapshot.
-  const live = editable || (!revision && row.author_id === user.id) ? await buildSnapshot(db, user, row, false).catch((e) => (e instanceof HttpError ? null : Promise.reject(e))) : null;
+  const live = editable || (!revision && row.author_id === user.id) ? await buildSnapshot(db, user, row, false, deps.pool).catch((e) => (e instanceof HttpError ? null : Promise.reject(e))) : null;
   const exhibit: Exhibit = {
     ...summary(row),
     snapshot: revision?.snapshot ?? null,

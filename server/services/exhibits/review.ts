@@ -31,7 +31,7 @@ export async function transition(deps: ExhibitDeps, user: PublicUser, id: number
     const change: Record<string, unknown> = { status: to, updated_at: new Date() };
     let revision = cur.revision as number;
     if (to === 'in_review') {
-      const snap = await buildSnapshot(db, user, cur, true);
+      const snap = await buildSnapshot(db, user, cur, true, deps.pool);
       revision += 1;
       await trx('exhibit_revisions').insert({ exhibit_id: id, number: revision, snapshot: JSON.stringify(snap), checksum: snapshotChecksum(snap), created_by: user.id });
       change.revision = revision;

@@ -19,6 +19,7 @@ import { panelById, panelData } from '../boards.js';
 import { chronologyStamp } from '../chronology.js';
 import { getSettings } from '../settings.js';
 import { computeSpec, rangeStudyResult } from '../studies/results.js';
+import type { AnalysisPool } from '../../workers/pool.js';
 import { getStudy } from '../studies/studies.js';
 import type { Study } from '../../schemas/studies.js';
 async function vintageChecksum(db: Db, seriesId: number, number: number) {
@@ -26,7 +27,7 @@ async function vintageChecksum(db: Db, seriesId: number, number: number) {
 }
 
 /** The exhibit's content computed from the current data (a draft's live view, or the next snapshot). */
-export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string, any>, frozen: boolean): Promise<Snapshot> {
+export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string, any>, frozen: boolean, pool?: AnalysisPool): Promise<Snapshot> {
   const settings = await getSettings(db);
   const common = {
     // What the printed figure carries beyond the data, frozen with it (issue 14).
@@ -69,13 +70,13 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
   });
   if (row.study_id) {
     const s = await getStudy(db, row.study_id);
-    if (s.kind === 'range') return ranged('study', s, await rangeStudyResult(db, undefined, row.vintage_pin ? { ...s, vintage: row.vintage_pin, asOf: null } : s));
+    if (s.kind === 'range') return ranged('study', s, await rangeStudyResult(db, pool, row.vintage_pin ? { ...s, vintage: row.vintage_pin, asOf: null } : s));
     // An update of an exhibit whose study pins an older vintage draws on the newer one it was prepared for.
-    const r = await computeSpec(db, row.vintage_pin ? { ...s, vintage: row.vintage_pin, asOf: null } : s);
+    const r = await computeSpec(db, row.vintage_pin ? { ...s, vintage: row.vintage_pin, asOf: null } : s, { pool });
     const studies = [{ id: s.id, title: s.title, method: r.method, params: r.params, transform: r.transform, vintage: r.vintage, asOf: r.asOf, vintageChecksum: await vintageChecksum(db, r.series.id, r.vintage), methodLine: r.methodLine }];
     const snap = single('study', r, studies, [{ id: r.series.id, code: r.series.code, title: r.series.title, unit: r.series.unit, source: r.series.source }]);
     // The exhibit option: the band of past revisions around the end of this estimate, with its note.
-    if (row.revision_band && snap.chartKind === 'cycle') return { ...snap, revisionBand: await studyRevisionBand(db, undefined, s, r.vintage), caution: `${CAUTION_LINE} ${REVISION_BAND_CAUTION}` };
+    if (row.revision_band && snap.chartKind === 'cycle') return { ...snap, revisionBand: await studyRevisionBand(db, pool, s, r.vintage), caution: `${CAUTION_LINE} ${REVISION_BAND_CAUTION}` };
     return snap;
   }
   if (!row.panel_id) throw conflict('exhibit_source_gone', 'The study or panel this exhibit was drafted from no longer exists.');
@@ -83,7 +84,7 @@ export async function buildSnapshot(db: Db, user: PublicUser, row: Record<string
     if (e instanceof HttpError && e.status === 404) throw conflict('exhibit_source_gone', 'The panel this exhibit was drafted from no longer exists.');
     throw e;
   });
-  const data: PanelData = await panelData(db, panel);
+  const data: PanelData = await panelData(db, panel, pool);
   if (data.range) return ranged('panel', data.studies[0], data.range);
   const studies: Snapshot['studies'] = [];
   for (const l of data.lines) {

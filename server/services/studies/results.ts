@@ -11,7 +11,7 @@ import { CAUTIONS } from '../../schemas/cautions.js';
 import { FREQUENCY_LABELS, PERIOD_WORD, PERIODS_PER_YEAR, type Frequency } from '../../schemas/frequency.js';
 import { badRequest } from '../../lib/errors.js';
 import type { CompareBody, CompareResult, StudyResult, StudySpec } from '../../schemas/studies.js';
-import { runSpec } from './spec.js';
+import { runSpec, type SpecOptions } from './spec.js';
 import { getStudy, singleMethodOnly } from './studies.js';
 import { runRangeSpec } from './range.js';
 import type { AnalysisPool } from '../../workers/pool.js';
@@ -43,7 +43,7 @@ export function endOfSample(input: ArrayLike<number>, cycle: ArrayLike<number>, 
   return { endOfSamplePeriods: 0, endNote: null };
 }
 
-export async function computeSpec(db: Db, spec: StudySpec, opts: { frequency?: Frequency } = {}): Promise<StudyResult> {
+export async function computeSpec(db: Db, spec: StudySpec, opts: SpecOptions = {}): Promise<StudyResult> {
   const { data, result: r, aggregated } = await runSpec(db, spec, opts);
   const stats = cycleStatistics(r.cycle, r.frequency);
   const tps = turningPoints(r.cycle, r.frequency);
@@ -79,9 +79,9 @@ export async function computeSpec(db: Db, spec: StudySpec, opts: { frequency?: F
 }
 
 /** A single-method study's result (exports, scripts); a range study is refused with what to use instead. */
-export async function studyResult(db: Db, id: number) {
+export async function studyResult(db: Db, id: number, pool?: AnalysisPool) {
   const s = singleMethodOnly(await getStudy(db, id), 'This');
-  const result = await computeSpec(db, s);
+  const result = await computeSpec(db, s, { pool });
   return { study: s, ...result };
 }
 
@@ -95,7 +95,7 @@ export async function rangeStudyResult(db: Db, pool: AnalysisPool | undefined, s
 export async function studyAnswer(db: Db, pool: AnalysisPool | undefined, id: number) {
   const s = await getStudy(db, id);
   if (s.kind === 'range') return rangeStudyResult(db, pool, s);
-  return { kind: 'single' as const, study: s, ...(await computeSpec(db, s)) };
+  return { kind: 'single' as const, study: s, ...(await computeSpec(db, s, { pool })) };
 }
 
 // ------------------------------------------------------------------ comparisons
@@ -120,13 +120,11 @@ async function commonFrequency(db: Db, body: CompareBody): Promise<Frequency | u
   return undefined;
 }
 
-export async function compare(db: Db, body: CompareBody): Promise<CompareResult> {
+export async function compare(db: Db, body: CompareBody, pool?: AnalysisPool): Promise<CompareResult> {
   const frequency = await commonFrequency(db, body);
-  const results: (StudyResult & { label: string })[] = [];
-  for (const item of body.items) {
-    const r = await computeSpec(db, item, { frequency });
-    results.push({ label: item.label ?? `${r.series.code} · ${r.methodLine}`, ...r });
-  }
+  // Computed side by side (on the worker threads when slow), listed in the order asked.
+  const computed = await Promise.all(body.items.map((item) => computeSpec(db, item, { frequency, pool })));
+  const results: (StudyResult & { label: string })[] = computed.map((r, k) => ({ label: body.items[k].label ?? `${r.series.code} · ${r.methodLine}`, ...r }));
   const { periods: all, values: cycles } = alignByPeriod(results.map((r) => ({ periods: r.periods, values: r.cycle })));
   const ref = Math.min(body.reference, results.length - 1);
   const toNaN = (a: (number | null)[]) => Float64Array.from(a, (v) => (v === null ? NaN : v));

@@ -7,6 +7,7 @@ import type { Db } from '../../db.js';
 import type { ExportFile } from '../../importers/export.js';
 import { SCRIPT_TEMPLATE } from './script-template.js';
 import { studyResult } from './results.js';
+import type { AnalysisPool } from '../../workers/pool.js';
 
 /** The methods the script recomputes with statsmodels (the rest go through POST /decompose). */
 export const STATSMODELS_METHODS = ['hp', 'baxter-king', 'christiano-fitzgerald', 'uc'] as const;
@@ -17,8 +18,8 @@ const TOLERANCE = 1e-6;
 /** JSON that sits safely inside a Python raw string in single triple quotes: no quote of that kind at all. */
 const embed = (value: unknown) => JSON.stringify(value).replace(/'/g, '\\u0027');
 
-export async function studyScript(db: Db, id: number, origin: string): Promise<ExportFile> {
-  const r = await studyResult(db, id);
+export async function studyScript(db: Db, id: number, origin: string, pool?: AnalysisPool): Promise<ExportFile> {
+  const r = await studyResult(db, id, pool);
   const dataLength = r.extension ? r.extension.from : r.periods.length;
   const study = {
     id: r.study.id,

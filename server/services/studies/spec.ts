@@ -1,25 +1,42 @@
 /** A study's specification run on its stored series: the check behind saving, and the start of every result. */
 import { aggregateByAverage } from '../../analysis/aggregate.js';
-import { decompose } from '../../analysis/index.js';
+import { AnalysisError, decompose, fromJsonResponse, type DecomposeRequest, type DecomposeResult } from '../../analysis/index.js';
 import type { Db } from '../../db.js';
 import type { Frequency } from '../../schemas/frequency.js';
 import type { StudySpec } from '../../schemas/studies.js';
 import { readSeriesValues } from '../catalogue/stored-values.js';
 import { vintageInForce } from '../catalogue/vintages.js';
+import type { AnalysisPool } from '../../workers/pool.js';
+import { inlineWork } from '../decompose.js';
+
+export interface SpecOptions {
+  /** Compare on this frequency (averaging a higher one into it). */
+  frequency?: Frequency;
+  /** The worker threads: work too large or too slow for the request thread goes there (services/decompose.ts inlineWork). */
+  pool?: AnalysisPool;
+}
+
+/** A decomposition on the request thread when it is small and cheap, else on a worker thread (without a pool, here). */
+async function decomposeAnywhere(request: DecomposeRequest, pool: AnalysisPool | undefined): Promise<DecomposeResult> {
+  if (!pool || inlineWork(request.values.length, [request.method])) return decompose(request);
+  const answer = await pool.runSingle({ kind: 'single', request });
+  if (!answer.ok) throw new AnalysisError(answer.error.code, answer.error.message, answer.error.details);
+  return fromJsonResponse(JSON.parse(Buffer.from(answer.body).toString('utf8')));
+}
 
 /**
  * Runs a specification on its stored series: the data and the decomposition (AnalysisError → 400).
  * With `frequency` below the series' own, the data are first averaged into that frequency
  * (a comparison of series of different frequencies on a common one).
  */
-export async function runSpec(db: Db, spec: StudySpec, opts: { frequency?: Frequency } = {}) {
+export async function runSpec(db: Db, spec: StudySpec, opts: SpecOptions = {}) {
   // A date pin reads the vintage in force on that date (404 when none was released by then).
   const vintage = spec.asOf ? (await vintageInForce(db, spec.seriesId, spec.asOf)).number : spec.vintage;
   const stored = await readSeriesValues(db, spec.seriesId, vintage);
   const to = opts.frequency ?? stored.series.frequency;
   const data = to === stored.series.frequency ? stored : { ...stored, ...aggregateByAverage(stored.periods, stored.values, stored.series.frequency, to) };
   const start = to === stored.series.frequency ? (data.start ?? undefined) : data.periods[0];
-  const r = decompose({ frequency: to, start, values: data.values, transform: spec.transform, method: spec.method, params: spec.params });
+  const r = await decomposeAnywhere({ frequency: to, start, values: data.values, transform: spec.transform, method: spec.method, params: spec.params }, opts.pool);
   return { params: r.params, data: { ...data, start: start ?? null }, result: r, aggregated: to !== stored.series.frequency ? { from: stored.series.frequency, to } : null };
 }
 
