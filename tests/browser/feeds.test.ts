@@ -11,6 +11,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startFakeSdmxSource, type FakeSdmxSource } from '../../server/sdmx/fake-source.js';
 import type { TestServer } from '../helpers/app.js';
 import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { pickSeries } from '../helpers/picker.js';
 
 let t: TestServer;
 let browser: BrowserSession;
@@ -38,7 +39,7 @@ describe('a steward registers and runs a feed', () => {
     await page.getByLabel('Name', { exact: true }).fill('Estuary hours worked');
     await page.getByLabel('SDMX data address').fill(`${source.url}/data/EST_STATS,NA_MAIN,1.0/Q.EST.HOURS`);
     await page.getByLabel('Key 1', { exact: true }).fill('Q.EST.HOURS');
-    await page.getByLabel('Series 1', { exact: true }).selectOption('FK_HOURS');
+    await pickSeries(page.getByLabel('Series 1', { exact: true }), 'hours', 'FK_HOURS', 'click');
     await page.getByLabel('Schedule (cron, UTC)').fill('30 25 * * 1-5');
     await page.getByRole('button', { name: 'Register the feed' }).click();
     expect(await page.getByRole('alert').filter({ hasText: /hour/i }).first().innerText()).toMatch(/hour/i);

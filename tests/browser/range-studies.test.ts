@@ -9,6 +9,7 @@ import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { TestServer } from '../helpers/app.js';
 import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { pickSeries } from '../helpers/picker.js';
 
 let t: TestServer;
 let browser: BrowserSession;
@@ -29,8 +30,7 @@ describe('range studies', () => {
     await page.setViewportSize({ width: 1440, height: 1000 });
     await signInAs(page, t.url, 'economist@demo.test');
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Range & reliability' }).click();
-    const series = page.getByLabel('Series');
-    await series.selectOption({ label: await series.locator('option', { hasText: 'EST_GDP_REAL' }).innerText() });
+    await pickSeries(page.getByLabel('Series'), 'GDP_RE', 'EST_GDP_REAL', 'click');
     await page.getByRole('checkbox', { name: 'Unobserved components' }).uncheck();
     await page.getByRole('button', { name: 'Show the range' }).click();
     await page.getByTestId('range-chart').locator('canvas').first().waitFor({ timeout: 30_000 });

@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { startFakeSdmxSource, type FakeSdmxSource } from '../../server/sdmx/fake-source.js';
 import type { TestServer } from '../helpers/app.js';
 import { openSuite, signInAs, signOut, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { pickSeries } from '../helpers/picker.js';
 import { signedIn } from '../helpers/session.js';
 
 let t: TestServer;
@@ -41,7 +42,7 @@ describe('release day', () => {
     await page.getByLabel('Name', { exact: true }).fill('Estuary national accounts');
     await page.getByLabel('SDMX data address').fill(`${source.url}/data/EST_STATS,NA_MAIN,1.0/Q.EST.GDP_VOL`);
     await page.getByLabel('Key 1', { exact: true }).fill('Q.EST.GDP_VOL');
-    await page.getByLabel('Series 1', { exact: true }).selectOption('FK_GDP');
+    await pickSeries(page.getByLabel('Series 1', { exact: true }), 'FK_G', 'FK_GDP');
     await page.getByRole('button', { name: 'Register the feed' }).click();
     const card = page.getByRole('listitem').filter({ has: page.getByRole('heading', { name: 'Estuary national accounts' }) });
     await card.waitFor();

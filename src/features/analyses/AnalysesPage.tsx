@@ -8,7 +8,8 @@ import { useMemo, useState } from 'react';
 import { PERIODS_PER_YEAR } from '@schemas/frequency';
 import type { Transform } from '@schemas/decompose';
 import { EmptyState, ErrorNote, Field, PageHeader, Spinner, Tabs } from '@/components/ui';
-import { useSeriesList } from '@/features/catalogue/api';
+import { SeriesPicker } from '@/features/catalogue/SeriesPicker';
+import type { SeriesListItem } from '@schemas/catalogue';
 import { useMethods } from '@/features/studies/api';
 import { RangeView } from './RangeView';
 import { ReliabilityView } from './ReliabilityView';
@@ -16,13 +17,11 @@ import { ReliabilityView } from './ReliabilityView';
 const DEFAULT_METHODS = ['hp', 'hamilton', 'hamilton-average', 'bn-filter', 'uc', 'hp-forecast'];
 
 export function AnalysesPage() {
-  const list = useSeriesList();
   const catalogue = useMethods();
-  const [seriesId, setSeriesId] = useState<number | null>(null);
+  const [series, setSeries] = useState<SeriesListItem | null>(null);
   const [transform, setTransform] = useState<Transform>('log100');
   const [chosen, setChosen] = useState<string[]>(DEFAULT_METHODS);
   const [tab, setTab] = useState<'range' | 'reliability'>('range');
-  const series = list.data?.find((s) => s.id === seriesId) ?? null;
   const frequency = series?.frequency ?? 'Q';
   const methods = useMemo(
     () => (catalogue.data?.methods ?? []).filter((m) => chosen.includes(m.id)).map((m) => ({ method: m.id, params: { ...m.initial[frequency] } })),
@@ -34,29 +33,21 @@ export function AnalysesPage() {
       <PageHeader title="Range and reliability">
         How far the methods’ gap estimates disagree on a series, and which of them held up in real time across its vintages. Neither the range nor the revision band is a forecast.
       </PageHeader>
-      {(list.isPending || catalogue.isPending) && <Spinner />}
-      <ErrorNote error={list.error ?? catalogue.error} />
-      {list.data && catalogue.data && (
+      {catalogue.isPending && <Spinner />}
+      <ErrorNote error={catalogue.error} />
+      {catalogue.data && (
         <div className="space-y-4">
           <div className="card grid gap-4 p-4 md:grid-cols-[minmax(0,1fr)_12rem]">
             <Field label="Series" htmlFor="analyses-series">
-              <select
+              <SeriesPicker
                 id="analyses-series"
-                className="input w-full"
-                value={seriesId ?? ''}
-                onChange={(e) => {
-                  const s = list.data.find((x) => x.id === Number(e.target.value));
-                  setSeriesId(s ? s.id : null);
+                value={series?.id}
+                needsVintage
+                onChange={(s) => {
+                  setSeries(s);
                   if (s) setTransform(/%|percent|rate/i.test(s.unit) ? 'none' : 'log100');
                 }}
-              >
-                <option value="">Choose a series…</option>
-                {list.data.map((s) => (
-                  <option key={s.id} value={s.id}>
-                    {s.code} — {s.title}
-                  </option>
-                ))}
-              </select>
+              />
             </Field>
             <Field label="Transform" htmlFor="analyses-transform">
               <select id="analyses-transform" className="input w-full" value={transform} onChange={(e) => setTransform(e.target.value as Transform)}>

@@ -1,44 +1,77 @@
 import type { ColumnDef } from '@tanstack/react-table';
-import { useMemo, useState } from 'react';
-import { Link, useNavigate } from 'react-router-dom';
+import { useEffect, useMemo, useState } from 'react';
+import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import { FREQUENCY_LABELS } from '@schemas/frequency';
 import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
-import { useSeriesList, type SeriesListItem } from './api';
+import { useDebounced } from '@/lib/useDebounced';
+import { useSeriesPage, type SeriesListItem } from './api';
 import { ACCESS, allows } from '@schemas/access';
 
 export function InventedBadge({ source }: { source: string }) {
   if (!/invented/i.test(source)) return null;
   return (
-    <span className="tag border-above text-above" title="The demo workspace's numbers are invented">
+    <span className="tag whitespace-nowrap border-above text-above" title="The demo workspace's numbers are invented">
       invented demo data
     </span>
   );
 }
 
+/** Series a page of the Catalogue shows. */
+export const CATALOGUE_PAGE_SIZE = 50;
+const count = (n: number) => n.toLocaleString('en-GB');
+
+/**
+ * The Catalogue, searched and paged on the server: 50 series a page in code order, the search
+ * (code or title) and the frequency filter in the address, so that Back returns to the same page.
+ */
 export function CataloguePage() {
-  const list = useSeriesList();
   const me = useMe();
   const navigate = useNavigate();
-  const [q, setQ] = useState('');
-  const [frequency, setFrequency] = useState('');
-  const [unit, setUnit] = useState('');
+  const [params, setParams] = useSearchParams();
+  const frequency = params.get('frequency') ?? '';
+  const pageNumber = Math.max(1, Number(params.get('page')) || 1);
+  const [q, setQ] = useState(params.get('q') ?? '');
+  const searched = useDebounced(q.trim(), 300);
+  /** Changes the address: a new search or filter starts again at page 1. */
+  const change = (next: Record<string, string>) =>
+    setParams(
+      (old) => {
+        const out = new URLSearchParams(old);
+        for (const [key, value] of Object.entries(next)) {
+          if (value) out.set(key, value);
+          else out.delete(key);
+        }
+        if (!('page' in next)) out.delete('page');
+        return out;
+      },
+      { replace: !('page' in next) },
+    );
+  useEffect(() => {
+    if (searched !== (params.get('q') ?? '')) change({ q: searched });
+  }, [searched]);
+  const offset = (pageNumber - 1) * CATALOGUE_PAGE_SIZE;
+  const list = useSeriesPage({ q: params.get('q') || undefined, frequency: (frequency || undefined) as 'A' | undefined, limit: CATALOGUE_PAGE_SIZE, offset });
   const canEdit = allows(ACCESS.catalogueWrite, me.data?.roles);
   const columns = useMemo<ColumnDef<SeriesListItem, any>[]>(
-    () => [
+    () =>
+      ([
       { accessorKey: 'code', header: 'Code', cell: (c) => <Link to={`/catalogue/${c.row.original.id}`} className="font-semibold text-trend hover:underline">{c.getValue()}</Link> },
-      { accessorKey: 'title', header: 'Title', cell: (c) => (<span>{c.getValue()} <InventedBadge source={c.row.original.source} /></span>) },
+      { accessorKey: 'title', header: 'Title', cell: (c) => (<span className="inline-block min-w-[12rem]">{c.getValue()} <InventedBadge source={c.row.original.source} /></span>) },
       { accessorKey: 'frequency', header: 'Frequency', cell: (c) => FREQUENCY_LABELS[c.getValue() as 'A'] },
       { accessorKey: 'unit', header: 'Unit' },
       { id: 'vintage', header: 'Latest vintage', accessorFn: (s) => s.latestVintage?.number ?? 0, meta: { numeric: true }, cell: (c) => c.row.original.latestVintage?.number ?? '—' },
       { id: 'asOf', header: 'Data as of', accessorFn: (s) => s.latestVintage?.asOf ?? '', cell: (c) => formatDate(c.getValue() || null) },
       { id: 'last', header: 'Last period', accessorFn: (s) => s.latestVintage?.lastPeriod ?? '', cell: (c) => c.getValue() || '—' },
-    ],
+    ] as ColumnDef<SeriesListItem, any>[]).map((column) => ({ ...column, enableSorting: false })),
     [],
   );
-  const units = useMemo(() => [...new Set((list.data ?? []).map((s) => s.unit))].sort(), [list.data]);
-  const rows = (list.data ?? []).filter((s) => (!frequency || s.frequency === frequency) && (!unit || s.unit === unit));
+  const total = list.data?.total ?? 0;
+  const rows = list.data?.items ?? [];
+  const filtered = !!params.get('q') || !!frequency;
+  const last = Math.max(1, Math.ceil(total / CATALOGUE_PAGE_SIZE));
+  const go = (n: number) => change({ page: n > 1 ? String(n) : '' });
   return (
     <>
       <PageHeader
@@ -61,27 +94,41 @@ export function CataloguePage() {
       >
         Every series, with the release its latest vintage holds.
       </PageHeader>
-      <div className="mb-3 flex flex-wrap gap-3">
-        <input className="field max-w-xs" placeholder="Search code or title" value={q} onChange={(e) => setQ(e.target.value)} aria-label="Search the Catalogue" />
-        <select className="field max-w-[10rem]" value={frequency} onChange={(e) => setFrequency(e.target.value)} aria-label="Filter by frequency">
+      <div role="search" aria-label="Catalogue" className="mb-3 flex flex-wrap gap-3">
+        <input type="search" className="field max-w-xs" placeholder="Search code or title" value={q} onChange={(e) => setQ(e.target.value)} aria-label="Search the Catalogue" />
+        <select className="field max-w-[10rem]" value={frequency} onChange={(e) => change({ frequency: e.target.value })} aria-label="Filter by frequency">
           <option value="">All frequencies</option>
           <option value="A">annual</option>
           <option value="Q">quarterly</option>
           <option value="M">monthly</option>
         </select>
-        <select className="field max-w-[16rem]" value={unit} onChange={(e) => setUnit(e.target.value)} aria-label="Filter by unit">
-          <option value="">All units</option>
-          {units.map((u) => (
-            <option key={u}>{u}</option>
-          ))}
-        </select>
       </div>
+      <p role="status" className="mb-2 text-sm text-ink-soft" data-testid="catalogue-count">
+        {list.isPending ? 'Loading the Catalogue…' : list.data && total > 0 ? `Showing ${count(offset + 1)}–${count(offset + rows.length)} of ${count(total)} series${filtered ? ' that match' : ''}` : list.data && filtered ? 'No series match.' : ''}
+      </p>
       {list.isPending && <Spinner />}
       <ErrorNote error={list.error} />
-      {list.data && list.data.length === 0 ? (
+      {list.data && total === 0 && !filtered ? (
         <EmptyState title="The Catalogue is empty">{canEdit ? 'Define a series, then load its first release.' : 'A data steward defines series and loads their releases.'}</EmptyState>
       ) : (
-        list.data && <DataTable data={rows} columns={columns} globalFilter={q} initialSorting={[{ id: 'code', desc: false }]} onRowClick={(s) => navigate(`/catalogue/${s.id}`)} testId="catalogue-table" empty="No series match." />
+        list.data && (
+          <div aria-busy={list.isPlaceholderData} className={list.isPlaceholderData ? 'opacity-60' : ''}>
+            <DataTable data={rows} columns={columns} onRowClick={(s) => navigate(`/catalogue/${s.id}`)} testId="catalogue-table" label="Catalogue series" empty={offset > 0 ? 'This page is past the last series.' : 'No series match.'} />
+          </div>
+        )
+      )}
+      {list.data && total > CATALOGUE_PAGE_SIZE && (
+        <nav aria-label="Catalogue pages" className="mt-3 flex flex-wrap items-center gap-3 text-sm">
+          <button type="button" className="btn-quiet" disabled={pageNumber <= 1} onClick={() => go(pageNumber - 1)}>
+            ← Previous 50
+          </button>
+          <span className="text-ink-soft">
+            Page {count(pageNumber)} of {count(last)}
+          </span>
+          <button type="button" className="btn-quiet" disabled={pageNumber >= last} onClick={() => go(pageNumber + 1)}>
+            Next 50 →
+          </button>
+        </nav>
       )}
     </>
   );

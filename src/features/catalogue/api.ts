@@ -1,16 +1,28 @@
-import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { CreateSeriesBody, FileProblem, LoadAnswer, LoadPreview, LoadSummary, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage } from '@schemas/catalogue';
+import type { CreateSeriesBody, FileProblem, LoadAnswer, LoadPreview, LoadSummary, RevisionRow, RevisionSummary, Series, SeriesListAnswer, SeriesListItem, SeriesListQuery, Vintage } from '@schemas/catalogue';
 import { useUpload } from '@/lib/upload';
 import type { HistoryAnswer, HistoryPreview, HistoryVintage } from '@schemas/history';
 
 export type { HistoryAnswer, HistoryPreview, HistoryVintage };
 
-export type { LoadAnswer, LoadPreview, RevisionRow, RevisionSummary, Series, SeriesListItem, Vintage };
+export type { LoadAnswer, LoadPreview, RevisionRow, RevisionSummary, Series, SeriesListAnswer, SeriesListItem, Vintage };
 export type Problem = FileProblem;
 
-export const useSeriesList = () => useQuery({ queryKey: ['series'], queryFn: () => api<{ items: SeriesListItem[] }>('/series').then((r) => r.items) });
-export const useSeries = (id: number) => useQuery({ queryKey: ['series', id], queryFn: () => api<Series & { vintageCount: number; latestVintage: Vintage | null }>(`/series/${id}`) });
+/**
+ * One page of the Catalogue, searched and filtered on the server (`GET /series?q=&limit=&offset=`),
+ * with the number of matching series; the previous page stays shown while the next one comes.
+ */
+export function useSeriesPage(query: SeriesListQuery, enabled = true) {
+  const params = new URLSearchParams();
+  for (const [key, value] of Object.entries(query)) if (value !== undefined && value !== '') params.set(key, String(value));
+  return useQuery({ queryKey: ['series', 'page', params.toString()], queryFn: () => api<SeriesListAnswer>(`/series?${params}`), placeholderData: keepPreviousData, enabled });
+}
+export type SeriesDetail = Series & { vintageCount: number; latestVintage: Vintage | null };
+export const useSeries = (id: number) => useQuery({ queryKey: ['series', id], queryFn: () => api<SeriesDetail>(`/series/${id}`) });
+/** A series named by its id or its code; nothing is asked before one is named. */
+export const useSeriesRef = (ref: number | string | null | undefined) =>
+  useQuery({ queryKey: ['series', typeof ref === 'number' ? ref : String(ref ?? '')], queryFn: () => api<SeriesDetail>(`/series/${encodeURIComponent(String(ref))}`), enabled: ref !== null && ref !== undefined && ref !== '' && ref !== 0 });
 /** A series' vintages; nothing is asked before a series is chosen (no request for series 0). */
 export const useVintages = (id: number | undefined) => useQuery({ queryKey: ['series', id, 'vintages'], queryFn: () => api<{ items: Vintage[] }>(`/series/${id}/vintages`).then((r) => r.items), enabled: !!id && id > 0 });
 export const useObservations = (id: number, vintage: number | 'latest', enabled = true) =>

@@ -8,7 +8,7 @@ import { ACCESS, allows } from '@schemas/access';
 import { checkTurns, contractions, type Turn } from '@schemas/chronology';
 import { EmptyState, ErrorNote, Field, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
-import { useSeriesList } from '@/features/catalogue/api';
+import { SeriesPicker } from '@/features/catalogue/SeriesPicker';
 import { useChronologies, useChronologyMutations, type Chronology } from './api';
 
 export function ChronologyPage() {
@@ -46,7 +46,6 @@ export function ChronologyPage() {
 
 function Editor({ chronology, canEdit, onSaved }: { chronology: Chronology | null; canEdit: boolean; onSaved: (id: number | null) => void }) {
   const m = useChronologyMutations();
-  const series = useSeriesList();
   const [name, setName] = useState(chronology?.name ?? '');
   const [area, setArea] = useState(chronology?.area ?? '');
   const [notes, setNotes] = useState(chronology?.notes ?? '');
@@ -87,14 +86,7 @@ function Editor({ chronology, canEdit, onSaved }: { chronology: Chronology | nul
       {canEdit && (
         <div className="flex flex-wrap items-end gap-2 rounded border border-hairline p-3">
           <Field label="Start from the Harding–Pagan dates of a series" htmlFor="chr-series">
-            <select id="chr-series" className="field" value={seriesId} onChange={(e) => setSeriesId(e.target.value ? Number(e.target.value) : '')}>
-              <option value="">Choose a series…</option>
-              {series.data?.filter((s) => s.latestVintage).map((s) => (
-                <option key={s.id} value={s.id}>
-                  {s.code} — {s.title}
-                </option>
-              ))}
-            </select>
+            <SeriesPicker id="chr-series" className="min-w-[16rem] max-w-full" value={seriesId || null} needsVintage onChange={(s) => setSeriesId(s ? s.id : '')} />
           </Field>
           <button type="button" className="btn-quiet" disabled={!seriesId || m.fromSeries.isPending} onClick={start}>
             Use its dates

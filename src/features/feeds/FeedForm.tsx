@@ -1,8 +1,8 @@
 import { zodResolver } from '@hookform/resolvers/zod';
-import { useFieldArray, useForm } from 'react-hook-form';
+import { Controller, useFieldArray, useForm } from 'react-hook-form';
 import { createFeedSchema, nextRuns, scheduleInWords, type CreateFeedInput, type Feed } from '@schemas/feeds';
 import { ErrorNote, Field, formatDate } from '@/components/ui';
-import { useSeriesList } from '@/features/catalogue/api';
+import { SeriesPicker } from '@/features/catalogue/SeriesPicker';
 import { useCreateFeed } from './api';
 
 const EMPTY: CreateFeedInput = { name: '', url: '', schedule: '', mappings: [{ key: '', series: '' }], headers: [] };
@@ -10,7 +10,6 @@ const EMPTY: CreateFeedInput = { name: '', url: '', schedule: '', mappings: [{ k
 /** Registering a feed: the SDMX data address, the series it fills, a schedule read back in words, optional headers. */
 export function FeedForm({ onCreated }: { onCreated: (feed: Feed) => void }) {
   const create = useCreateFeed();
-  const series = useSeriesList();
   const form = useForm<CreateFeedInput>({ resolver: zodResolver(createFeedSchema) as never, defaultValues: EMPTY });
   const mappings = useFieldArray({ control: form.control, name: 'mappings' });
   const headers = useFieldArray({ control: form.control, name: 'headers' });
@@ -51,14 +50,11 @@ export function FeedForm({ onCreated }: { onCreated: (feed: Feed) => void }) {
                 <input id={`feed-key-${i}`} className="field font-mono" placeholder="Q.EST.GDP_VOL" {...form.register(`mappings.${i}.key`)} />
               </Field>
               <Field label={`Series ${i + 1}`} htmlFor={`feed-series-${i}`} error={e.mappings?.[i]?.series?.message}>
-                <select id={`feed-series-${i}`} className="field" {...form.register(`mappings.${i}.series`)}>
-                  <option value="">Choose a series…</option>
-                  {(series.data ?? []).map((s) => (
-                    <option key={s.id} value={s.code}>
-                      {s.code} · {s.title}
-                    </option>
-                  ))}
-                </select>
+                <Controller
+                  control={form.control}
+                  name={`mappings.${i}.series`}
+                  render={({ field }) => <SeriesPicker id={`feed-series-${i}`} value={field.value} onChange={(s) => field.onChange(s?.code ?? '')} />}
+                />
               </Field>
               <button type="button" className="btn-quiet mt-6" disabled={mappings.fields.length === 1} aria-label={`Remove key ${i + 1}`} onClick={() => mappings.remove(i)}>
                 Remove

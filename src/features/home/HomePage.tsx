@@ -1,7 +1,7 @@
 import { Link } from 'react-router-dom';
 import { formatDate, PageHeader } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
-import { useLoads, useSeriesList } from '@/features/catalogue/api';
+import { useLoads, useSeriesPage } from '@/features/catalogue/api';
 import { useExhibits, useReviewQueue } from '@/features/exhibits/api';
 import { StateBadge } from '@/features/exhibits/ExhibitPage';
 import { useStudies } from '@/features/studies/api';
@@ -24,7 +24,8 @@ function Card({ title, children, to, action }: { title: string; children: React.
 /** The start page: what is new and what waits for this person, by role. */
 export function HomePage() {
   const me = useMe();
-  const series = useSeriesList();
+  // The count, and a first few series to tell a demo workspace by: not the whole Catalogue.
+  const series = useSeriesPage({ limit: 20 });
   const loads = useLoads();
   const economist = allows(ACCESS.studiesWrite, me.data?.roles);
   const editor = allows(ACCESS.review, me.data?.roles);
@@ -32,7 +33,7 @@ export function HomePage() {
   const mine = useExhibits({ mine: true });
   const published = useExhibits({ status: 'published' });
   const review = useReviewQueue(editor);
-  const invented = series.data?.some((s) => /invented/i.test(s.source));
+  const invented = series.data?.items.some((s) => /invented/i.test(s.source));
   return (
     <>
       <PageHeader title={`Good to see you, ${me.data?.name.split(' ')[0] ?? ''}`} docTitle="Start page">
@@ -45,7 +46,7 @@ export function HomePage() {
       )}
       <div className="grid gap-4 md:grid-cols-2 xl:grid-cols-3">
         <Card title="Catalogue" to="/catalogue" action="Browse the series">
-          <p>{series.data ? `${series.data.length} series` : '…'}</p>
+          <p>{series.data ? `${series.data.total.toLocaleString('en-GB')} series` : '…'}</p>
           <ul className="mt-2 space-y-1">
             {loads.data?.slice(0, 4).map((l) => (
               <li key={l.id} className="text-ink-soft">

@@ -7,7 +7,9 @@ import { compareChart } from '@/components/charts/options';
 import { fmt } from '@/components/charts/echarts';
 import { ScrollRegion } from '@/components/ScrollRegion';
 import { ErrorNote, Spinner } from '@/components/ui';
-import { useSeriesList } from '@/features/catalogue/api';
+import { useSeriesRef } from '@/features/catalogue/api';
+import { SeriesPicker } from '@/features/catalogue/SeriesPicker';
+import type { SeriesListItem } from '@schemas/catalogue';
 import { useCompare, useMethods } from './api';
 
 /** Overlay the cycles of several methods on one series, or of one method across several series. */
@@ -16,13 +18,15 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
   const [methods, setMethods] = useState<string[]>(['hp', 'hp-one-sided', 'hamilton', 'christiano-fitzgerald']);
   const catalogue = useMethods().data?.methods ?? [];
   const described = (id: string) => catalogue.find((m) => m.id === id);
-  const [others, setOthers] = useState<number[]>([]);
+  const [others, setOthers] = useState<SeriesListItem[]>([]);
   const [reference, setReference] = useState(0);
   const [common, setCommon] = useState<Frequency | ''>('');
-  const list = useSeriesList();
-  const code = list.data?.find((x) => x.id === spec.seriesId)?.code ?? 'this series';
+  const base = useSeriesRef(spec.seriesId).data;
+  const code = base?.code ?? 'this series';
+  /** The study's series first, then those the person added. */
+  const lines = useMemo(() => [{ id: spec.seriesId, code: base?.code, frequency: base?.frequency ?? frequency, unit: base?.unit ?? '' }, ...others], [spec.seriesId, base, others, frequency]);
   // Frequencies of the lines: when they differ, the person chooses a common one (or the server refuses).
-  const chosen = mode === 'series' ? [spec.seriesId, ...others].map((id) => list.data?.find((x) => x.id === id)?.frequency ?? frequency) : [frequency];
+  const chosen = mode === 'series' ? lines.map((s) => s.frequency) : [frequency];
   const mixed = new Set(chosen).size > 1;
   const lowest = [...chosen].sort((a, b) => PERIODS_PER_YEAR[a] - PERIODS_PER_YEAR[b])[0];
   const target = mixed && common ? common : undefined;
@@ -30,13 +34,13 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
     if (mode === 'methods') {
       return methods.map((m) => ({ seriesId: spec.seriesId, vintage: spec.vintage, transform: spec.transform, method: m, params: m === spec.method ? spec.params : { ...(described(m)?.initial[frequency] ?? {}) }, label: `${code} · ${described(m)?.name ?? m}` }));
     }
-    return [spec.seriesId, ...others].map((id) => {
-      const s = list.data?.find((x) => x.id === id);
+    return lines.map((s) => {
+      const id = s.id;
       // Parameters follow the frequency the line is decomposed at: its own, or the common one chosen.
       const at = target ?? s?.frequency ?? frequency;
       return { seriesId: id, vintage: id === spec.seriesId ? spec.vintage : ('latest' as const), transform: /percent|rate/i.test(s?.unit ?? '') ? ('none' as const) : spec.transform, method: spec.method, params: at === frequency && s?.id === spec.seriesId ? spec.params : { ...(described(spec.method)?.initial[at] ?? {}) }, label: `${s?.code ?? id} · ${described(spec.method)?.name ?? spec.method}` };
     });
-  }, [mode, methods, others, spec, list.data, frequency, catalogue, target, code]);
+  }, [mode, methods, lines, spec, frequency, catalogue, target, code]);
   const lagFreq = target ?? frequency;
   const body = items.length ? { items, reference: Math.min(reference, items.length - 1), maxLag: lagFreq === 'M' ? 12 : lagFreq === 'Q' ? 8 : 3, ...(target ? { frequency: target } : {}) } : null;
   const cmp = useCompare(body);
@@ -73,15 +77,25 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
           ))}
         </div>
       ) : (
-        <div className="flex flex-wrap gap-2">
-          {(list.data ?? [])
-            .filter((s) => s.id !== spec.seriesId && s.latestVintage)
-            .map((s) => (
-              <label key={s.id} className={`tag cursor-pointer gap-1 ${others.includes(s.id) ? 'border-trend bg-trend-light text-ink' : ''}`}>
-                <input type="checkbox" className="sr-only" checked={others.includes(s.id)} onChange={() => setOthers(others.includes(s.id) ? others.filter((x) => x !== s.id) : [...others, s.id])} />
-                {s.code}
-              </label>
-            ))}
+        <div className="space-y-2">
+          <div className="max-w-xl">
+            <label className="label" htmlFor="compare-add">
+              Add a series
+            </label>
+            <SeriesPicker id="compare-add" value={null} needsVintage exclude={lines.map((s) => s.id)} onChange={(s) => s && setOthers([...others, s])} />
+          </div>
+          {others.length > 0 && (
+            <ul className="flex flex-wrap gap-2" aria-label="Series compared with this one">
+              {others.map((s) => (
+                <li key={s.id} className="tag gap-1 border-trend bg-trend-light text-ink">
+                  {s.code}
+                  <button type="button" className="ml-1 rounded px-1 hover:bg-paper" aria-label={`Remove ${s.code}`} onClick={() => setOthers(others.filter((x) => x.id !== s.id))}>
+                    ×
+                  </button>
+                </li>
+              ))}
+            </ul>
+          )}
         </div>
       )}
       {mixed && (

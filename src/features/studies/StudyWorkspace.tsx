@@ -6,7 +6,8 @@ import { TRANSFORM_LABELS, TRANSFORMS } from '@schemas/decompose';
 import { createStudySchema, type CreateStudyBody, type StudySpec } from '@schemas/studies';
 import { EmptyState, ErrorNote, Field, PageHeader, Spinner, Tabs } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
-import { useSeriesList, useVintages } from '@/features/catalogue/api';
+import { useSeriesRef, useVintages } from '@/features/catalogue/api';
+import { SeriesPicker } from '@/features/catalogue/SeriesPicker';
 import { API } from '@/lib/api';
 import { useDebounced } from '@/lib/useDebounced';
 import { useMethods, usePreview, useSaveStudy, useStudy, useStudyAction, type Study } from './api';
@@ -30,7 +31,6 @@ export function StudyPage() {
 function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
   const me = useMe();
   const navigate = useNavigate();
-  const list = useSeriesList();
   const save = useSaveStudy(study?.id);
   const action = useStudyAction();
   const [tab, setTab] = useState<'decomposition' | 'compare' | 'realtime'>('decomposition');
@@ -43,7 +43,7 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
       : { title: '', notes: '', seriesId: seriesId ?? (undefined as unknown as number), vintage: 'latest', asOf: null, transform: 'log100', method: 'hp', params: {} },
   });
   const values = useWatch({ control: form.control });
-  const series = list.data?.find((s) => s.id === values.seriesId);
+  const series = useSeriesRef(values.seriesId).data;
   const frequency = series?.frequency ?? study?.series.frequency ?? 'Q';
   const vintages = useVintages(values.seriesId);
   const methods = useMethods();
@@ -136,28 +136,19 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
               control={form.control}
               name="seriesId"
               render={({ field }) => (
-                <select
+                <SeriesPicker
                   id="series"
-                  className="field"
-                  value={field.value ?? ''}
+                  value={field.value}
                   disabled={!canEdit}
-                  onChange={(e) => {
-                    const next = list.data?.find((s) => s.id === Number(e.target.value));
-                    field.onChange(Number(e.target.value));
+                  needsVintage
+                  onChange={(next) => {
+                    if (!next) return;
+                    field.onChange(next.id);
                     form.setValue('vintage', 'latest');
                     form.setValue('asOf', null);
-                    if (next) form.setValue('params', {});
+                    form.setValue('params', {});
                   }}
-                >
-                  <option value="" disabled>
-                    Choose a series…
-                  </option>
-                  {list.data?.filter((s) => s.latestVintage).map((s) => (
-                    <option key={s.id} value={s.id}>
-                      {s.code} — {s.title}
-                    </option>
-                  ))}
-                </select>
+                />
               )}
             />
           </Field>
