@@ -35,7 +35,8 @@ describe('a steward registers and runs a feed', () => {
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Catalogue' }).click();
     await page.getByRole('link', { name: 'Feeds' }).click();
     await page.getByRole('heading', { name: 'Feeds', level: 1 }).waitFor();
-    expect(await page.getByText('No feeds yet').count()).toBe(1);
+    // The list of feeds comes after the heading: wait for it rather than read it at once.
+    await expect.poll(() => page.getByText('No feeds yet').count()).toBe(1);
     await page.getByLabel('Name', { exact: true }).fill('Estuary hours worked');
     await page.getByLabel('SDMX data address').fill(`${source.url}/data/EST_STATS,NA_MAIN,1.0/Q.EST.HOURS`);
     await page.getByLabel('Key 1', { exact: true }).fill('Q.EST.HOURS');
