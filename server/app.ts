@@ -35,6 +35,7 @@ import { feedRoutes } from './routes/feeds.js';
 import { sdmxRoutes } from './routes/sdmx.js';
 import { startFeedScheduler } from './services/feeds/scheduler.js';
 import { alertRoutes } from './routes/alerts.js';
+import { startAlertSweeper } from './services/alerts/outbox.js';
 import { closePrintPool } from './workers/print-pool.js';
 import { configureObservationCache } from './services/catalogue/stored-values.js';
 import { createAnalysisPool } from './workers/pool.js';
@@ -146,8 +147,11 @@ export function createApp(options: AppOptions): Express & { locals: AppLocals } 
   app.locals.routes = routes;
   // Feeds' schedules: every instance may tick; a lease in the database lets one run each time.
   const scheduler = options.feedScheduler ? startFeedScheduler(deps) : null;
+  // Release alerts a stopped server left unsent (services/alerts/outbox.ts).
+  const sweeper = options.alertSweeper ? startAlertSweeper(deps) : null;
   app.locals.shutdown = async () => {
     await scheduler?.stop();
+    await sweeper?.stop();
     await deps.background.idle();
     await deps.pool.close();
     await closePrintPool();

@@ -24,6 +24,8 @@ export interface AppOptions {
   pool?: AnalysisPool;
   /** Start the feeds' scheduler with the app (the server does; tests tick it themselves). */
   feedScheduler?: boolean;
+  /** Sweep unfinished release alerts at start and every minute (the server does; tests sweep themselves). */
+  alertSweeper?: boolean;
 }
 
 export interface AppDeps extends AppOptions {

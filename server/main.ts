@@ -53,7 +53,7 @@ if (config.fakeSdmx.enabled) {
   }
 }
 const pool = createAnalysisPool(config.workerThreads);
-const app = createApp({ config, db, logger, mailbox, pool, feedScheduler: config.feeds.scheduler });
+const app = createApp({ config, db, logger, mailbox, pool, feedScheduler: config.feeds.scheduler, alertSweeper: true });
 
 const drain = createDrain();
 const server = createServer(drain.listener(app)).listen(config.port, config.host, () => {

@@ -1,11 +1,12 @@
 /**
  * Release alerts: when new vintages land (a load, a history load, a feed run), each person whose
  * studies follow "latest", or whose boards or exhibits draw on the series, gets one mail for the
- * whole load saying how each affected study's gap moved. Called after the vintages are committed;
- * the work runs after the answer (lib/background.ts), so a load never waits for mail, and a
- * failure is logged, never shown to the steward.
+ * whole load saying how each affected study's gap moved. The load queues the job in its
+ * transaction and it is delivered after the answer (outbox.ts), so a load never waits for mail, a
+ * failure is logged, never shown to the steward, and a server that stops before the mails go
+ * leaves the job for the next sweep.
  *
- * Example: `notifyVintagesLanded(deps, { seriesId: 7, numbers: [5], actorId: 2, source: 'load' })`.
+ * Example: `await sendReleaseAlerts(deps, { seriesId: 7, numbers: [5], actorId: 2, source: 'load' })`.
  */
 import type { Config } from '../../config.js';
 import type { Db } from '../../db.js';
@@ -36,11 +37,6 @@ export type VintagesLanded = ({ seriesId: number; numbers: number[] } | { series
   /** Words for where it came from ("the feed “Estuary national accounts”"), when the source says more than its kind. */
   label?: string;
 };
-
-/** Schedules the alerts of a release; returns at once. */
-export function notifyVintagesLanded(deps: AlertDeps, landed: VintagesLanded): void {
-  deps.background.run('release alerts', () => sendReleaseAlerts(deps, landed));
-}
 
 const signed = (v: number) => `${v > 0 ? '+' : v < 0 ? '−' : ''}${Math.abs(v).toFixed(2)}`;
 

@@ -10,7 +10,8 @@ import { readGrid } from '../../importers/grid.js';
 import { readHistory, type Release } from '../../importers/history.js';
 import type { FileProblem, RevisionSummary } from '../../schemas/catalogue.js';
 import type { HistoryAnswer, HistoryFields, HistorySkipped, HistoryVintage } from '../../schemas/history.js';
-import { notifyVintagesLanded, type AlertDeps } from '../alerts/landed.js';
+import type { AlertDeps } from '../alerts/landed.js';
+import { deliverSoon, queueReleaseAlerts } from '../alerts/outbox.js';
 import { audit } from '../audit.js';
 import { dateOnly } from './rows.js';
 import { getSeries } from './series.js';
@@ -101,13 +102,14 @@ export async function loadHistory(db: Db, request: HistoryRequest): Promise<Hist
   if (early.length) throw conflict('release_before_latest', `${early.length} release${early.length === 1 ? ' is' : 's are'} dated before the latest stored vintage (${latest!.number}, released ${latest!.asOf}); vintage numbers follow release order and are pinned by studies and exhibits, so only later releases can be added. Nothing was stored.`, problems.filter((p) => p.severity === 'error').slice(0, 200));
   if (errors) throw unprocessable('file_has_errors', `The file has ${errors} problem${errors === 1 ? '' : 's'} to fix before it can be stored; nothing was stored.`, problems.filter((p) => p.severity === 'error').slice(0, 200));
   if (!candidates.length) throw conflict('no_change', 'Nothing new: every release in the file is empty or identical to the one before it, so no vintage was stored.');
-  const stored = await storeHistory(db, series.id, series.code, candidates, latest, fields, file.filename, grid.format, actor);
-  if (request.alerts) notifyVintagesLanded(request.alerts, { seriesId: series.id, numbers: stored.map((v) => v.number), actorId: actor.id, source: 'history', label: `a history load of ${file.filename}` });
+  const { out: stored, job } = await storeHistory(db, series.id, series.code, candidates, latest, fields, file.filename, grid.format, actor, !!request.alerts);
+  // After the commit: the job of the alerts was queued with the vintages.
+  if (request.alerts && job) deliverSoon(request.alerts, job);
   const done = vintages.map((v, k) => ({ ...v, number: stored[k].number }));
   return { vintages: done, skipped, loadId: stored[0]?.loadId, preview: { ...preview, vintages: done } };
 }
 
-async function storeHistory(db: Db, seriesId: number, code: string, candidates: Candidate[], latest: { number: number; asOf: string } | null, fields: HistoryFields, filename: string, format: string, actor: { id: number; ip?: string }) {
+async function storeHistory(db: Db, seriesId: number, code: string, candidates: Candidate[], latest: { number: number; asOf: string } | null, fields: HistoryFields, filename: string, format: string, actor: { id: number; ip?: string }, alerts: boolean) {
   if (candidates.some((c) => c.asOf > today())) throw badRequest('as_of_in_future', 'A release date is in the future; a release is dated when it was published.');
   return transaction(db, async (trx) => {
     await trx('series').where('id', seriesId).forUpdate().select('id');
@@ -138,6 +140,7 @@ async function storeHistory(db: Db, seriesId: number, code: string, candidates: 
     const out = candidates.map((_, k) => ({ number: first + k, loadId }));
     await keepVintageMetadata(trx, loadId);
     await audit(trx, { actorId: actor.id, action: 'load.history', targetType: 'load', targetId: loadId, details: { filename, code, vintages: out.map((o) => o.number), count: out.length }, ip: actor.ip });
-    return out;
+    const job = alerts ? await queueReleaseAlerts(trx, { seriesId, numbers: out.map((v) => v.number), actorId: actor.id, source: 'history', label: `a history load of ${filename}` }) : null;
+    return { out, job };
   });
 }

@@ -4,7 +4,7 @@
  * changed through the load's own store path (loads/store.ts: one transaction, vintage metadata
  * kept), so a run stores all of its vintages or none. Every run leaves a record: when, how long,
  * the outcome, the vintages stored and the problems by series. A failed run mails the feed's
- * steward; a run that stored vintages tells the release alerts (after the commit).
+ * steward; a run that stored vintages queues the release alerts with them (alerts/outbox.ts).
  */
 import type { Config } from '../../config.js';
 import type { Db } from '../../db.js';
@@ -15,7 +15,7 @@ import type { Progress } from '../../lib/stream.js';
 import { composeMail, type Mailer } from '../../mail/mailer.js';
 import type { FileProblem, StoredLoadVintage } from '../../schemas/catalogue.js';
 import type { FeedOutcome, FeedRun, FeedSeriesProblems } from '../../schemas/feeds.js';
-import { notifyVintagesLanded, type AlertDeps } from '../alerts/landed.js';
+import type { AlertDeps } from '../alerts/landed.js';
 import { checkAssigned, type AssignedGroup } from '../catalogue/loads/preview.js';
 import { storeLoad } from '../catalogue/loads/store.js';
 import { acquireLease, keepLease, leaseHolder, releaseLease } from './lease.js';
@@ -87,7 +87,8 @@ async function work(deps: FeedDeps, feed: StoredFeed, lease: { lost(): boolean }
   if (checked.errors > 0) throw new RunFailed(`The answer has ${plural(checked.errors, 'problem')} to fix at the source; nothing was stored.`, problems);
   if (lease.lost()) throw new RunFailed('The run took longer than its lease and another run may have started; nothing was stored.', problems);
   try {
-    const stored = await storeLoad(db, feed.stewardId, checked, { note: `Feed “${feed.name}”` }, undefined, onProgress);
+    // The release alerts are queued with the vintages and delivered after the commit (alerts/outbox.ts).
+    const stored = await storeLoad(db, feed.stewardId, checked, { note: `Feed “${feed.name}”` }, undefined, onProgress, deps, { source: 'feed', label: `the feed “${feed.name}”` });
     return { outcome: 'stored' as const, stored, problems, message: `${plural(stored.vintages.length, 'new vintage')} stored (${stored.vintages.map((v) => `${v.code} ${v.number}`).join(', ')}).` };
   } catch (error) {
     if (error instanceof HttpError && error.code === 'no_change') return { outcome: 'unchanged' as const, stored: null, problems, message: 'Nothing new: every series matches its latest vintage.' };
@@ -142,8 +143,6 @@ export async function runFeed(deps: FeedDeps, feedId: number, options: RunOption
     lease.stop();
     await releaseLease(db, feed.id, holder).catch(() => {});
   }
-  // After the commit: the vintages are there for whoever reads them.
-  if (landed.length) notifyVintagesLanded(deps, { series: landed.map((v) => ({ seriesId: v.seriesId, numbers: [v.number] })), actorId: feed.stewardId, source: 'feed', label: `the feed “${feed.name}”` });
   if (outcome === 'failed') deps.background.run('feed failure mail', () => mailFailure(deps, feed, message, problems));
   const row = await db('feed_runs as r').leftJoin('users as u', 'u.id', 'r.started_by').where('r.id', runId).first('r.*', 'u.name as starter_name');
   return { run: toRun(row), landed };

@@ -11,7 +11,8 @@ import { iso } from '../rows.js';
 import { insertObservations, keepVintageMetadata } from '../vintages.js';
 import { allProblems, type CheckedLoad } from './preview.js';
 import { transaction } from '../../../lib/retry.js';
-import { notifyVintagesLanded, type AlertDeps } from '../../alerts/landed.js';
+import type { AlertDeps, VintagesLanded } from '../../alerts/landed.js';
+import { deliverSoon, queueReleaseAlerts } from '../../alerts/outbox.js';
 
 /**
  * Stores a checked load. Series rows are locked in id order, so concurrent loads of the same
@@ -19,9 +20,19 @@ import { notifyVintagesLanded, type AlertDeps } from '../../alerts/landed.js';
  * lock holds on one node only: a load on another node collides at commit on the unique
  * (series_id, number) and the whole transaction runs again (lib/retry.ts). A load with errors, a load
  * that changes nothing and a file that differs from the one previewed are refused. With `alerts`,
- * the people whose gaps the new vintages move hear of it after the commit (services/alerts).
+ * the people whose gaps the new vintages move hear of it after the commit: the job is queued in the
+ * same transaction (services/alerts/outbox.ts); `announce` says where the vintages came from.
  */
-export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, fields: LoadFields, ip?: string, onProgress?: Progress, alerts?: AlertDeps): Promise<{ loadId: number; vintages: StoredLoadVintage[] }> {
+export async function storeLoad(
+  db: Db,
+  actorId: number,
+  preview: CheckedLoad,
+  fields: LoadFields,
+  ip?: string,
+  onProgress?: Progress,
+  alerts?: AlertDeps,
+  announce: Pick<VintagesLanded, 'source' | 'label'> = { source: 'load', label: `a load of ${preview.filename}` },
+): Promise<{ loadId: number; vintages: StoredLoadVintage[] }> {
   if (preview.errors > 0) {
     throw unprocessable('file_has_errors', `The file has ${preview.errors} problem${preview.errors === 1 ? '' : 's'} to fix before it can be stored; nothing was stored.`, allProblems(preview).filter((p) => p.severity === 'error').slice(0, 200));
   }
@@ -83,11 +94,12 @@ export async function storeLoad(db: Db, actorId: number, preview: CheckedLoad, f
     }
     await keepVintageMetadata(trx, loadId);
     await audit(trx, { actorId, action: 'load.store', targetType: 'load', targetId: loadId, details: { filename: preview.filename, vintages: out.map((o) => `${o.code}#${o.number}`).slice(0, 50), count: out.length }, ip });
-    return { loadId, vintages: out };
+    const job = alerts ? await queueReleaseAlerts(trx, { series: out.map((v) => ({ seriesId: v.seriesId, numbers: [v.number] })), actorId, ...announce }) : null;
+    return { loadId, vintages: out, job };
   });
-  // After the commit: the vintages are there for whoever reads them, and a retried transaction mails once.
-  if (alerts) notifyVintagesLanded(alerts, { series: stored.vintages.map((v) => ({ seriesId: v.seriesId, numbers: [v.number] })), actorId, source: 'load', label: `a load of ${preview.filename}` });
-  return stored;
+  // After the commit: the vintages are there for whoever reads them, and a retried transaction queued one job.
+  if (alerts && stored.job) deliverSoon(alerts, stored.job);
+  return { loadId: stored.loadId, vintages: stored.vintages };
 }
 
 export async function listLoads(db: Db, limit = 100): Promise<LoadSummary[]> {
