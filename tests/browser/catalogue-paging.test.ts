@@ -6,6 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { pickSeries } from '../helpers/picker.js';
 import type { TestServer } from '../helpers/app.js';
 
 let t: TestServer;
@@ -120,5 +121,32 @@ describe('Catalogue page in pages', () => {
     await box.fill('paging');
     await expect.poll(async () => (await listbox.getAttribute('aria-busy')) === 'false' && (await listbox.getByRole('option').count())).toBe(20);
     expect(await page.getByRole('status').filter({ hasText: 'series match' }).innerText()).toBe('130 series match; the first 20 are listed, type more to narrow.');
+  });
+
+  it('the Compare tab adds series through the picker, marks those already compared, and removes them', async () => {
+    const { page } = browser;
+    const errors: string[] = [];
+    page.on('pageerror', (e) => errors.push(String(e)));
+    const id = (await t.db('studies').where('title', 'Estuary output gap, Hodrick–Prescott').first()).id;
+    await page.goto(`${t.url}/studies/${id}`);
+    await page.getByRole('tab', { name: 'Compare' }).click();
+    await page.getByLabel('This method across series').check();
+    const add = page.getByLabel('Add a series');
+    await pickSeries(add, 'est_ip', 'EST_IP', 'keyboard', true);
+    await pickSeries(add, 'credit-to', 'EST_CREDIT_GDP', 'click', true);
+    const compared = page.getByRole('list', { name: 'Series compared with this one' });
+    expect(await compared.getByRole('button').evaluateAll((bs) => bs.map((b) => b.getAttribute('aria-label')))).toEqual(['Remove EST_IP', 'Remove EST_CREDIT_GDP']);
+    // The study's own series and those added are listed but cannot be chosen again.
+    await add.fill('Estuary');
+    const listbox = page.getByRole('listbox');
+    await expect.poll(async () => (await listbox.getAttribute('aria-busy')) === 'false' && (await listbox.getByRole('option', { disabled: true }).allInnerTexts()).map((x) => x.split(' ')[0])).toEqual(['EST_CREDIT_GDP', 'EST_GDP_REAL', 'EST_IP']);
+    expect(await listbox.getByRole('option', { disabled: true }).first().innerText()).toMatch(/already chosen/);
+    await add.press('Escape');
+    // Monthly and quarterly lines: compared once a common frequency is chosen.
+    await page.getByLabel('Common frequency').selectOption('Q');
+    await page.getByTestId('compare-chart').locator('canvas').first().waitFor({ timeout: 30_000 });
+    await page.getByRole('button', { name: 'Remove EST_IP' }).click();
+    expect(await page.getByTestId('common-frequency').count()).toBe(0);
+    expect(errors).toEqual([]);
   });
 });

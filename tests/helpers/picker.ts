@@ -18,10 +18,11 @@ async function until(what: string, check: () => Promise<boolean>) {
 
 /**
  * Types `typed` into the picker `box` (a combobox) and chooses the series whose code is `code`:
- * by keyboard (ArrowDown until it is the active option, then Enter) or by a click. Checks the box
- * then shows the series.
+ * by keyboard (ArrowDown until it is the active option, then Enter) or by a click. Checks the list
+ * closed and the box then shows the series (or, for a picker that adds to a list, `adds`, is empty
+ * again for the next one).
  */
-export async function pickSeries(box: Locator, typed: string, code: string, how: 'keyboard' | 'click' = 'keyboard') {
+export async function pickSeries(box: Locator, typed: string, code: string, how: 'keyboard' | 'click' = 'keyboard', adds = false) {
   const page = box.page();
   if ((await box.getAttribute('role')) !== 'combobox') throw new Error('series picker: the box is not a combobox');
   await box.click();
@@ -38,5 +39,6 @@ export async function pickSeries(box: Locator, typed: string, code: string, how:
     if ((await box.getAttribute('aria-activedescendant')) !== target) throw new Error(`series picker: the arrow keys never reached ${code}`);
     await box.press('Enter');
   }
-  await until(`the box does not show ${code} after choosing it`, async () => (await box.inputValue()).startsWith(`${code} — `) && (await box.getAttribute('aria-expanded')) === 'false');
+  const shown = async () => (adds ? (await box.inputValue()) === '' : (await box.inputValue()).startsWith(`${code} — `));
+  await until(`the box does not show ${adds ? 'nothing' : code} after choosing ${code}`, async () => (await shown()) && (await box.getAttribute('aria-expanded')) === 'false');
 }

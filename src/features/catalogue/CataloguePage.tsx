@@ -104,7 +104,7 @@ export function CataloguePage() {
         </select>
       </div>
       <p role="status" className="mb-2 text-sm text-ink-soft" data-testid="catalogue-count">
-        {list.isPending ? 'Loading the Catalogue…' : list.data && total > 0 ? `Showing ${count(offset + 1)}–${count(offset + rows.length)} of ${count(total)} series${filtered ? ' that match' : ''}` : list.data && filtered ? 'No series match.' : ''}
+        {list.isPending || list.isPlaceholderData ? 'Loading the Catalogue…' : list.data && total > 0 ? `Showing ${count(offset + 1)}–${count(offset + rows.length)} of ${count(total)} series${filtered ? ' that match' : ''}` : list.data && filtered ? 'No series match.' : ''}
       </p>
       {list.isPending && <Spinner />}
       <ErrorNote error={list.error} />
