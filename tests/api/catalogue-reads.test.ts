@@ -38,8 +38,10 @@ afterAll(async () => {
 
 const QUERIES = ['SC_0012', 'sc_001', 'series 12', 'GDP', 'gdp', 'émi', 'EMI', 'emigre', 'Straße', 'strasse', 'STRASSE', 'mixed case', '100%', '50_50', '50\\_50', '📈', '📈📈 s', "o'neil", 'backslash', '\\', 'Real   output', 'real output', '国内生产', '产总值 季', 'a', 'ab', '%', '_', '__', 'abc', 'zzzz-nothing', 'est_', 'Real GDP', '(invented)', 'ies 29'];
 
+/** The plain LIKE over every series, the text escaped so that % and _ are found as typed. */
 async function reference(q: string): Promise<string[]> {
-  const rows = await t.db('series').where((w) => w.where('code', 'like', `%${q}%`).orWhere('title', 'like', `%${q}%`)).orderBy('code').select('code');
+  const text = q.replace(/[\\%_]/g, (c) => `\\${c}`);
+  const rows = await t.db('series').where((w) => w.where('code', 'like', `%${text}%`).orWhere('title', 'like', `%${text}%`)).orderBy('code').select('code');
   return rows.map((r) => r.code);
 }
 
@@ -55,6 +57,10 @@ describe('Catalogue search through the index of pieces', () => {
     expect(await search('émi')).toEqual(['EMIGRE_Q']);
     expect(await search('SC_0012')).toHaveLength(10);
     expect((await search('国内生产')).length).toBe(1);
+    // % and _ are found as typed, not as wildcards: "est_" is not "test " and "%" is not everything.
+    expect(await search('%')).toEqual(await search('100%'));
+    expect((await search('%')).length).toBeGreaterThan(0);
+    expect((await search('est_')).every((code) => code.toLowerCase().includes('est_'))).toBe(true);
   });
 
   it('follows renames and deletions', async () => {

@@ -8,6 +8,9 @@ import { dateOnly, iso, toSeries } from './rows.js';
 import { seriesHoldingPieces } from './search.js';
 import { transaction } from '../../lib/retry.js';
 
+/** Text for a LIKE pattern that matches itself only: backslash, % and _ escaped (MariaDB escapes with a backslash). */
+export const likeText = (text: string) => text.replace(/[\\%_]/g, (c) => `\\${c}`);
+
 /**
  * The Catalogue's list: the series matching `q` (code or title), `frequency` and `unit`, in code
  * order, each with its latest vintage, and how many match in all (`total`). With `limit` (and
@@ -18,7 +21,8 @@ export async function listSeries(db: Db, filter: SeriesListQuery = {}): Promise<
   const where: string[] = [];
   const bindings: unknown[] = [];
   if (filter.q) {
-    // The index of three-character pieces finds the candidates; the LIKE decides, as it always did.
+    // The index of three-character pieces finds the candidates; the LIKE decides. The text is found
+    // as typed: % and _ are letters here, not wildcards (likeText).
     const candidates = await seriesHoldingPieces(db, filter.q);
     if (candidates?.length === 0) return { items: [], total: 0 };
     if (candidates) {
@@ -26,7 +30,7 @@ export async function listSeries(db: Db, filter: SeriesListQuery = {}): Promise<
       bindings.push(...candidates);
     }
     where.push('(s.code LIKE ? OR s.title LIKE ?)');
-    bindings.push(`%${filter.q}%`, `%${filter.q}%`);
+    bindings.push(`%${likeText(filter.q)}%`, `%${likeText(filter.q)}%`);
   }
   if (filter.frequency) {
     where.push('s.frequency = ?');
