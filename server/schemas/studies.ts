@@ -24,6 +24,8 @@ export function studySchemas(method: z.ZodType<string> = methodIdSchema) {
   const text = {
     title: z.string({ error: 'Give the study a title.' }).trim().min(1, 'Give the study a title.').max(200, 'A title has at most 200 characters.'),
     notes: z.string().max(10_000, 'Notes have at most 10 000 characters.').optional(),
+    /** The reference chronology whose contractions the study's charts shade (null: none). */
+    chronologyId: z.number().int().positive().nullable().optional(),
   };
   const studySpecSchema = z.object({ ...fields, asOf: fields.asOf.optional(), vintage: fields.vintage.default('latest'), transform: fields.transform.default('none'), params: fields.params.default({}) });
   /** A range study's methods: the range of gap estimates across them (at least two). */
@@ -86,6 +88,8 @@ export interface Study {
   params: Record<string, unknown>;
   /** A range study's methods (null for a single-method study). */
   methods: MethodChoice[] | null;
+  /** The reference chronology its charts shade, or null. */
+  chronologyId: number | null;
   owner: { id: number; name: string };
   createdAt: string;
   updatedAt: string;

@@ -42,6 +42,17 @@ describe('the economist’s workspace', () => {
     await page.goto(url);
     await expect.poll(() => page.getByTestId('method-line').innerText(), { timeout: 10_000 }).toMatch(/Hamilton/);
     expect(await page.getByLabel('Title').inputValue()).toBe('Estuary output gap, Hamilton');
+
+    // The chronology its charts shade is the study's: a change to save, kept after a reload.
+    const shade = page.getByLabel('Shade contractions of a reference chronology').first();
+    await shade.selectOption({ label: 'Staff reference chronology (invented) (Estuary)' });
+    await page.getByTestId('unsaved').waitFor();
+    await page.getByRole('button', { name: /^Save/ }).click();
+    await expect.poll(async () => (await t.db('studies').where('id', Number(url.split('/').pop())).first()).chronology_id).not.toBeNull();
+    await page.goto(url);
+    await page.getByTestId('cycle-chart').locator('canvas').first().waitFor();
+    await expect.poll(() => shade.evaluate((el) => (el as HTMLSelectElement).selectedOptions[0]?.textContent)).toBe('Staff reference chronology (invented) (Estuary)');
+    expect(await page.getByTestId('unsaved').count()).toBe(0);
     await page.getByRole('tab', { name: 'Real-time revisions' }).click();
     await page.getByRole('button', { name: 'Run the revision analysis' }).click();
     await page.getByTestId('fan-chart').locator('canvas').first().waitFor({ timeout: 30_000 });

@@ -16,8 +16,11 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
   const { db } = deps;
   let units = body.units ?? null;
   let sourceLine = body.sourceLine ?? null;
+  // An exhibit drafted from a study shades what the study shades unless told otherwise.
+  let chronologyId = body.chronologyId;
   if (body.studyId) {
     const s = await getStudy(db, body.studyId);
+    if (chronologyId === undefined) chronologyId = s.chronologyId;
     const r = s.kind === 'range' ? await rangeStudyResult(db, deps.pool, s) : await computeSpec(db, s, { pool: deps.pool });
     units ??= r.unitOfCycle;
     sourceLine ??= r.series.source;
@@ -41,7 +44,7 @@ export async function createExhibit(deps: ExhibitDeps, user: PublicUser, body: C
       notes: body.notes ?? null,
       chart_kind: body.chartKind ?? 'cycle',
       number_label: body.number || null,
-      chronology_id: body.chronologyId ?? null,
+      chronology_id: chronologyId ?? null,
       revision_band: !!body.revisionBand,
       status: 'draft',
     });

@@ -13,6 +13,7 @@ import { audit } from '../audit.js';
 import { runSpec } from './spec.js';
 import { runRangeSpec } from './range.js';
 import { dateOnly } from '../catalogue/rows.js';
+import { getChronology } from '../chronology.js';
 
 function toStudy(r: Record<string, any>): Study {
   return {
@@ -28,6 +29,7 @@ function toStudy(r: Record<string, any>): Study {
     method: r.method,
     params: JSON.parse(r.params),
     methods: r.methods ? JSON.parse(r.methods) : null,
+    chronologyId: r.chronology_id ?? null,
     owner: { id: r.owner_id, name: r.owner_name },
     createdAt: new Date(r.created_at).toISOString(),
     updatedAt: new Date(r.updated_at).toISOString(),
@@ -59,6 +61,7 @@ export async function getStudy(db: Db, id: number): Promise<Study> {
 export async function createStudy(db: Db, owner: PublicUser, body: Omit<CreateStudyBody, 'kind'> & { kind?: Study['kind'] }, ip?: string, pool?: AnalysisPool) {
   const kind = body.kind ?? 'single';
   const checked = await checkSpec(db, pool, kind, { ...body, method: body.method ?? RANGE, methods: body.methods ?? null });
+  if (body.chronologyId) await getChronology(db, body.chronologyId);
   const [id] = await db('studies').insert({
     owner_id: owner.id,
     series_id: body.seriesId,
@@ -69,6 +72,7 @@ export async function createStudy(db: Db, owner: PublicUser, body: Omit<CreateSt
     ...checked,
     title: body.title,
     notes: body.notes ?? null,
+    chronology_id: body.chronologyId ?? null,
   });
   await audit(db, { actorId: owner.id, action: 'study.create', targetType: 'study', targetId: id, ip });
   return getStudy(db, id);
@@ -122,6 +126,7 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Up
     params: body.params ?? (body.method && body.method !== study.method ? {} : study.params),
   };
   const checked = await checkSpec(db, pool, study.kind, { ...spec, methods: body.methods ?? study.methods });
+  if (body.chronologyId) await getChronology(db, body.chronologyId);
   await db('studies')
     .where('id', id)
     .update({
@@ -132,6 +137,7 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Up
       ...checked,
       title: body.title ?? study.title,
       notes: body.notes === undefined ? study.notes : body.notes,
+      chronology_id: body.chronologyId === undefined ? study.chronologyId : body.chronologyId,
       updated_at: new Date(),
     });
   return getStudy(db, id);
@@ -140,7 +146,7 @@ export async function updateStudy(db: Db, user: PublicUser, id: number, body: Up
 export async function duplicateStudy(db: Db, user: PublicUser, id: number, pool?: AnalysisPool) {
   const s = await getStudy(db, id);
   const which = s.kind === 'range' ? { method: undefined, methods: s.methods! } : { method: s.method, methods: undefined };
-  return createStudy(db, user, { title: `${s.title} (copy)`.slice(0, 200), notes: s.notes ?? undefined, seriesId: s.seriesId, vintage: s.vintage, asOf: s.asOf, transform: s.transform, kind: s.kind, params: s.params, ...which }, undefined, pool);
+  return createStudy(db, user, { title: `${s.title} (copy)`.slice(0, 200), notes: s.notes ?? undefined, chronologyId: s.chronologyId, seriesId: s.seriesId, vintage: s.vintage, asOf: s.asOf, transform: s.transform, kind: s.kind, params: s.params, ...which }, undefined, pool);
 }
 
 export async function deleteStudy(db: Db, user: PublicUser, id: number, ip?: string) {

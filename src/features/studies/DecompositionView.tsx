@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'react';
+import { useMemo } from 'react';
 import { PERIOD_WORD } from '@schemas/frequency';
 import { contractionRanges } from '@schemas/chronology';
 import { composeFigure, DEFAULT_SOURCE_WORDING, sourceLine } from '@schemas/charts/figure';
@@ -50,11 +50,11 @@ export function StatsTable({ stats, unit, lastPeriod }: { stats: Record<string, 
   );
 }
 
-export function DecompositionView({ result, updating, title }: { result: StudyResult; updating: boolean; title: string }) {
+/** A study's decomposition; the chronology its charts shade is the study's own (saved with it), chosen here. */
+export function DecompositionView({ result, updating, title, chronologyId, onChronologyChange }: { result: StudyResult; updating: boolean; title: string; chronologyId: number | null; onChronologyChange: (id: number | null) => void }) {
   const word = PERIOD_WORD[result.frequency][1];
   // A method's further series: those named cycle… go on the cycle chart, the others on the trend chart.
   const extra = Object.entries(result.extra ?? {}).map(([name, values]) => ({ name, values }));
-  const [chronologyId, setChronologyId] = useState<number | null>(null);
   const stamp = useChronologyStamp(chronologyId);
   const contractions = useMemo(() => (stamp ? { name: stamp.name, ranges: contractionRanges(result.periods, stamp) } : undefined), [stamp, result]);
   // Levels on the series' own scale: a log transform is for the decomposition, not for reading levels.
@@ -99,7 +99,7 @@ export function DecompositionView({ result, updating, title }: { result: StudyRe
   return (
     <div className="space-y-4" aria-busy={updating}>
       <div className="flex flex-wrap items-center gap-2 text-sm">
-        <ChronologyPicker value={chronologyId} onChange={setChronologyId} />
+        <ChronologyPicker value={chronologyId} onChange={onChronologyChange} />
         <span className="tag" data-testid="method-line">{result.methodLine}</span>
         <span className="tag" data-testid="vintage-stamp">{result.vintageStamp}{result.vintagePin === 'latest' ? ' (follows new loads)' : ' (pinned)'}</span>
         {result.endNote && (

@@ -39,8 +39,8 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
   const form = useForm<CreateStudyBody>({
     resolver: zodResolver(createStudySchema) as never,
     defaultValues: study
-      ? { title: study.title, notes: study.notes ?? '', seriesId: study.seriesId, vintage: study.vintage, asOf: study.asOf, transform: study.transform, method: study.method, params: study.params }
-      : { title: '', notes: '', seriesId: seriesId ?? (undefined as unknown as number), vintage: 'latest', asOf: null, transform: 'log100', method: 'hp', params: {} },
+      ? { title: study.title, notes: study.notes ?? '', seriesId: study.seriesId, vintage: study.vintage, asOf: study.asOf, transform: study.transform, method: study.method, params: study.params, chronologyId: study.chronologyId }
+      : { title: '', notes: '', seriesId: seriesId ?? (undefined as unknown as number), vintage: 'latest', asOf: null, transform: 'log100', method: 'hp', params: {}, chronologyId: null },
   });
   const values = useWatch({ control: form.control });
   const series = useSeriesRef(values.seriesId).data;
@@ -62,7 +62,10 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
   // Recompute after the controls have been still for a moment: dragging λ sends no request per pixel.
   const debounced = useDebounced(spec, 350);
   const preview = usePreview(debounced);
-  const changed = !!study && JSON.stringify({ ...spec, title: values.title, notes: values.notes ?? '' }) !== JSON.stringify({ seriesId: study.seriesId, vintage: study.vintage, asOf: study.asOf, transform: study.transform, method: study.method, params: study.params, title: study.title, notes: study.notes ?? '' });
+  const changed =
+    !!study &&
+    JSON.stringify({ ...spec, title: values.title, notes: values.notes ?? '', chronologyId: values.chronologyId ?? null }) !==
+      JSON.stringify({ seriesId: study.seriesId, vintage: study.vintage, asOf: study.asOf, transform: study.transform, method: study.method, params: study.params, title: study.title, notes: study.notes ?? '', chronologyId: study.chronologyId });
 
   // Leaving with unsaved changes asks first (links inside the app, and closing or reloading the tab).
   const unsaved = canEdit && (study ? changed : !!values.seriesId);
@@ -257,7 +260,13 @@ function Workspace({ study, seriesId }: { study?: Study; seriesId?: number }) {
               <>
                 {preview.isPending && <Spinner label="Decomposing…" />}
                 {preview.error && !preview.data && <ErrorNote error={preview.error} />}
-                {preview.data && <DecompositionView result={preview.data} updating={preview.isFetching || JSON.stringify(debounced) !== JSON.stringify(spec)} title={values.title || 'Study'} />}
+                {preview.data && <DecompositionView
+                    result={preview.data}
+                    updating={preview.isFetching || JSON.stringify(debounced) !== JSON.stringify(spec)}
+                    title={values.title || 'Study'}
+                    chronologyId={values.chronologyId ?? null}
+                    onChronologyChange={(id) => form.setValue('chronologyId', id, { shouldDirty: true })}
+                  />}
               </>
             )}
             {tab === 'compare' && spec && <CompareView spec={spec} frequency={frequency} />}
