@@ -121,10 +121,13 @@ function splitSdmx(table: Table): SeriesRows[] {
 
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
-/** A cell as a number: null when empty, or an error message saying what is wrong with it. */
+/** A cell written for a value that is missing, as R writes it (our history download writes it too). */
+export const MISSING_VALUE = 'NA';
+
+/** A cell as a number: null when empty or NA (missing), or an error message saying what is wrong with it. */
 export function readValue(raw: string): { value: number | null } | { error: string } {
   const text = String(raw ?? '').trim();
-  if (text === '') return { value: null };
+  if (text === '' || text === MISSING_VALUE) return { value: null };
   if (text.length > 40) return { error: `"${text.slice(0, 20)}…" is not a number.` };
   if (NUMBER.test(text)) {
     const v = Number(text);

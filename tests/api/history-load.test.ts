@@ -236,6 +236,40 @@ describe('history out', () => {
   });
 });
 
+describe('history out, with missing values', () => {
+  it('writes NA for a period a vintage has without a value, so values missing at its ends load back too', async () => {
+    const code = await newSeries('T_HIST_NA');
+    const single = (rows: string[]) => Buffer.from(['period,value', ...rows].join('\n') + '\n');
+    // Vintage 1 has no value for its first and last quarters; vintage 2 fills the last one and misses one inside.
+    await steward.post(`/api/v1/series/${code}/vintages`).field('asOf', '2021-01-15').attach('file', single(['2020-Q1,', '2020-Q2,101', '2020-Q3,102', '2020-Q4,']), 'v1.csv').expect(201);
+    await steward.post(`/api/v1/series/${code}/vintages`).field('asOf', '2021-04-15').attach('file', single(['2020-Q1,', '2020-Q2,101.5', '2020-Q3,', '2020-Q4,103', '2021-Q1,104']), 'v2.csv').expect(201);
+    const vintagesOf = async (c: string) => (await t.db('vintages as v').join('series as s', 's.id', 'v.series_id').where('s.code', c).orderBy('v.number').select('v.number', 'v.as_of', 'v.checksum', 'v.row_count')).map((r) => ({ ...r, as_of: String(r.as_of) }));
+    const original = await vintagesOf(code);
+    expect(original.map((v) => v.row_count)).toEqual([4, 5]);
+    const csv = await viewer.get(`/api/v1/series/${code}/history?format=csv`).expect(200);
+    const lines = csv.text.trim().split('\n');
+    expect(lines.slice(3)).toEqual(['2020-Q1,NA,NA', '2020-Q2,101,101.5', '2020-Q3,102,NA', '2020-Q4,NA,103', '2021-Q1,,104']);
+    const xlsx = await viewer.get(`/api/v1/series/${code}/history?format=xlsx`).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    }).expect(200);
+    for (const [copy, file, name] of [['T_HIST_NA_CSV', Buffer.from(csv.text), 'back.csv'], ['T_HIST_NA_XLSX', xlsx.body as Buffer, 'back.xlsx']] as const) {
+      await newSeries(copy);
+      await post(steward, copy, file, name).expect(201);
+      expect(await vintagesOf(copy), name).toEqual(original);
+    }
+  });
+
+  it('reads NA in a load as a missing value', async () => {
+    const code = await newSeries('T_LOAD_NA');
+    const res = await steward.post(`/api/v1/series/${code}/vintages`).attach('file', Buffer.from('period,value\n2020-Q1,100\n2020-Q2,NA\n2020-Q3,\n2020-Q4,103\n'), 'na.csv').expect(201);
+    expect(res.body.vintage.rowCount).toBe(4);
+    const v = await viewer.get(`/api/v1/series/${code}/vintages/1/observations`).expect(200);
+    expect(v.body.values).toEqual([100, null, null, 103]);
+  });
+});
+
 describe('the demo histories (invented)', () => {
   it('hold at least 80 quarterly releases of real GDP and 150 monthly of industrial production, with a base-year change', async () => {
     const gdp = (await viewer.get('/api/v1/series/EST_GDP_RT').expect(200)).body;
