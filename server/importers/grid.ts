@@ -24,9 +24,13 @@ export interface Grid {
 /** Release tables are wide: one column per release. */
 export const GRID_MAX_COLUMNS = 2000;
 
-export async function readGrid(buf: Buffer, filename: string, options: { sheet?: string; format?: string; preferSheet?: string } = {}): Promise<Grid> {
+/**
+ * Options: `sheet` names the sheet to read; without it, `preferSheet` (by name), else the first
+ * sheet whose first column `looksLikeData` (its first 200 cells as text), else the first with cells.
+ */
+export async function readGrid(buf: Buffer, filename: string, options: { sheet?: string; format?: string; preferSheet?: string; looksLikeData?: (firstColumn: string[]) => boolean } = {}): Promise<Grid> {
   const format = detectFormat(buf, filename, options.format);
-  if (format === 'xlsx') return readWorkbookGrid(buf, options.sheet, options.preferSheet);
+  if (format === 'xlsx') return readWorkbookGrid(buf, options.sheet, options.preferSheet, options.looksLikeData);
   const text = decodeText(buf);
   const parsed = Papa.parse<string[]>(text, { delimiter: '', delimitersToGuess: [',', ';', '\t'], skipEmptyLines: false });
   const bad = parsed.errors.find((e) => e.type === 'Quotes');
@@ -43,7 +47,7 @@ function checkSize(rows: number, columns: number) {
   if (columns > GRID_MAX_COLUMNS) throw unprocessable('too_many_columns', `The table has ${columns} columns; at most ${GRID_MAX_COLUMNS} are accepted.`);
 }
 
-async function readWorkbookGrid(buf: Buffer, sheet: string | undefined, preferSheet: string | undefined): Promise<Grid> {
+async function readWorkbookGrid(buf: Buffer, sheet: string | undefined, preferSheet: string | undefined, looksLikeData?: (firstColumn: string[]) => boolean): Promise<Grid> {
   const { workbook, droppedReferences } = await openWorkbook(buf);
   const sheets = workbook.worksheets.map((w) => w.name);
   if (!sheets.length) throw unprocessable('empty_file', 'The workbook has no worksheet.');
@@ -53,7 +57,12 @@ async function readWorkbookGrid(buf: Buffer, sheet: string | undefined, preferSh
     ws = named(sheet);
     if (!ws) throw badRequest('sheet_not_found', `The workbook has no sheet named "${sheet.slice(0, 60)}"; its sheets are ${sheets.map((s) => `"${s}"`).join(', ')}.`);
   } else {
-    ws = (preferSheet && named(preferSheet)) || workbook.worksheets.find((w) => w.actualRowCount > 0) || workbook.worksheets[0];
+    const firstColumn = (w: ExcelJS.Worksheet) => Array.from({ length: Math.min(w.rowCount, 200) }, (_, r) => cellText(w.getRow(r + 1).getCell(1).value));
+    ws =
+      (preferSheet && named(preferSheet)) ||
+      (looksLikeData && workbook.worksheets.find((w) => w.actualRowCount > 0 && looksLikeData(firstColumn(w)))) ||
+      workbook.worksheets.find((w) => w.actualRowCount > 0) ||
+      workbook.worksheets[0];
   }
   checkSize(Math.max(1, ws.rowCount), ws.columnCount);
   const rows: string[][] = [];

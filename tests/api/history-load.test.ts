@@ -153,6 +153,8 @@ describe('wide XLSX from a statistics office', () => {
     expect(dated.body.vintages.map((v: { asOf: string }) => v.asOf)).toEqual(['2021-03-01', '2021-06-01']);
     const missing = await post(steward, other, file, 'office.xlsx', { sheet: 'Prices' }, true).expect(400);
     expect(missing.body.error.message).toMatch(/no sheet named "Prices".*"Notes", "GDP", "Dated"/);
+    // Without a sheet named: the first with periods down its first column, not the notes before it.
+    expect((await post(steward, other, file, 'office.xlsx', {}, true).expect(200)).body.preview.sheet).toBe('GDP');
   });
 
   it('takes headerRow and releaseDateRow when given, and refuses a zip bomb as single loads do', async () => {

@@ -8,6 +8,7 @@ import { badRequest, conflict, unprocessable } from '../../lib/errors.js';
 import { transaction } from '../../lib/retry.js';
 import { readGrid } from '../../importers/grid.js';
 import { readHistory, type Release } from '../../importers/history.js';
+import { readPeriodCell } from '../../importers/release-labels.js';
 import type { FileProblem, RevisionSummary } from '../../schemas/catalogue.js';
 import type { HistoryAnswer, HistoryFields, HistorySkipped, HistoryVintage } from '../../schemas/history.js';
 import type { AlertDeps } from '../alerts/landed.js';
@@ -44,7 +45,9 @@ async function latestStored(db: Db, seriesId: number) {
 export async function loadHistory(db: Db, request: HistoryRequest): Promise<HistoryAnswer> {
   const { seriesId, file, fields, dryRun, actor } = request;
   const series = await getSeries(db, seriesId);
-  const grid = await readGrid(file.buffer, file.filename, { sheet: fields.sheet, preferSheet: series.code });
+  // Without a sheet named: the one named after the series, else the first with periods down its first column.
+  const periodsDown = (cells: string[]) => cells.filter((c) => c.trim() && !('error' in readPeriodCell(c, series.frequency))).length >= 4;
+  const grid = await readGrid(file.buffer, file.filename, { sheet: fields.sheet, preferSheet: series.code, looksLikeData: periodsDown });
   const read = readHistory(grid, series.frequency, fields);
   const problems: FileProblem[] = [...read.problems];
   if (grid.droppedReferences) problems.push({ row: null, column: null, message: `The workbook refers to ${grid.droppedReferences} part${grid.droppedReferences === 1 ? '' : 's'} it does not contain (a drawing, a chart or a comment); they were left out and the cells read.`, severity: 'warning' });
