@@ -96,20 +96,30 @@ export async function studyExport(db: Db, studyId: number, format: 'csv' | 'xlsx
       { header: 'vintage', kind: 'text' },
     ],
     rows: r.periods.map((p, i) => [p, r.input[i], r.trend[i], r.cycle[i], r.methodLine, r.vintageStamp]),
-    about: [
-      ['Study', r.study.title],
-      ['Series', `${r.series.code}: ${r.series.title}`],
-      ['Unit', r.series.unit],
-      ['Source', r.series.source],
-      ['Transform', HOW[r.transform] ?? r.transform],
-      ['Cycle unit', r.unitOfCycle],
-      ['Method', r.methodLine],
-      ['Vintage', r.vintageStamp],
-      ['Numbers', PRECISION_NOTE],
-      ['Caution', CAUTION_LINE],
-    ],
+    about: studyAbout(r, ['Method', r.methodLine], r.vintageStamp, CAUTION_LINE),
   };
   return buildExport(table, `study-${r.study.id}-${r.series.code}`, format);
+}
+
+/** The header block of a study's download: what, from which data, how, and the caution. */
+function studyAbout(
+  r: { study: { title: string }; series: { code: string; title: string; unit: string; source: string }; transform: string; unitOfCycle: string },
+  method: [string, string],
+  vintageStamp: string,
+  caution: string,
+): [string, string][] {
+  return [
+    ['Study', r.study.title],
+    ['Series', `${r.series.code}: ${r.series.title}`],
+    ['Unit', r.series.unit],
+    ['Source', r.series.source],
+    ['Transform', HOW[r.transform] ?? r.transform],
+    ['Cycle unit', r.unitOfCycle],
+    method,
+    ['Vintage', vintageStamp],
+    ['Numbers', PRECISION_NOTE],
+    ['Caution', caution],
+  ];
 }
 
 const RANGE_COLUMNS = { median: 'median across methods', min: 'lowest across methods', max: 'highest across methods' };
@@ -123,18 +133,7 @@ function rangeStudyExport(r: Awaited<ReturnType<typeof rangeStudyResult>>, forma
     csvAbout: true,
     columns: [{ header: 'period', kind: 'text' }, ...cycles.map((c) => computed(`cycle, ${c.label}, ${r.unitOfCycle}`)), { header: 'vintage', kind: 'text' }],
     rows: r.periods.map((p, i) => [p, ...cycles.map((c) => c.values[i]), vintageStamp]),
-    about: [
-      ['Study', r.study.title],
-      ['Series', `${r.series.code}: ${r.series.title}`],
-      ['Unit', r.series.unit],
-      ['Source', r.series.source],
-      ['Transform', HOW[r.transform] ?? r.transform],
-      ['Cycle unit', r.unitOfCycle],
-      ['Methods', methodLine],
-      ['Vintage', vintageStamp],
-      ['Numbers', PRECISION_NOTE],
-      ['Caution', `${CAUTION_LINE} ${RANGE_CAUTION}`],
-    ],
+    about: studyAbout(r, ['Methods', methodLine], vintageStamp, `${CAUTION_LINE} ${RANGE_CAUTION}`),
   };
   return buildExport(table, `study-${r.study.id}-${r.series.code}-range`, format);
 }

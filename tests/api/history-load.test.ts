@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { makeTestApp, type TestApp } from '../helpers/app.js';
 import { signedIn } from '../helpers/session.js';
 import { csvOf, quarterRows, utc, withDanglingReferences, workbook, type Cell } from '../helpers/history-files.js';
+import { asBytes } from '../helpers/parsers.js';
 
 let t: TestApp;
 let steward: Awaited<ReturnType<typeof signedIn>>;
@@ -33,6 +34,21 @@ function post(agent: typeof steward, code: string, file: Buffer, name: string, f
   let r = agent.post(`/api/v1/series/${code}/history${dryRun ? '?dryRun=1' : ''}`).attach('file', file, name);
   for (const [k, v] of Object.entries(fields)) r = r.field(k, v);
   return r;
+}
+
+const vintagesOf = async (code: string) => (await t.db('vintages as v').join('series as s', 's.id', 'v.series_id').where('s.code', code).orderBy('v.number').select('v.number', 'v.as_of', 'v.checksum', 'v.row_count')).map((r) => ({ ...r, as_of: String(r.as_of) }));
+
+/** The release table of `code` as CSV and XLSX, each loaded into a new series: both hold `code`'s vintages. */
+async function expectLoadsBack(code: string, copies: [string, string]) {
+  const csv = await viewer.get(`/api/v1/series/${code}/history?format=csv`).expect(200);
+  const xlsx = await viewer.get(`/api/v1/series/${code}/history?format=xlsx`).buffer(true).parse(asBytes as never).expect(200);
+  const original = await vintagesOf(code);
+  for (const [copy, file, name] of [[copies[0], Buffer.from(csv.text), 'back.csv'], [copies[1], xlsx.body as Buffer, 'back.xlsx']] as const) {
+    await newSeries(copy);
+    await post(steward, copy, file, name).expect(201);
+    expect(await vintagesOf(copy), name).toEqual(original);
+  }
+  return csv.text;
 }
 
 // Wide, with a title row, a note row, the release dates in a row above the header, an empty release
@@ -215,26 +231,14 @@ describe('history out', () => {
   it('CSV and XLSX load back into a new series as identical vintages', async () => {
     const code = await newSeries('T_HIST_OUT');
     await post(steward, code, csvOf(WIDE), 'gdp.csv').expect(201);
-    const vintagesOf = async (c: string) => (await t.db('vintages as v').join('series as s', 's.id', 'v.series_id').where('s.code', c).orderBy('v.number').select('v.number', 'v.as_of', 'v.checksum', 'v.row_count')).map((r) => ({ ...r, as_of: String(r.as_of) }));
-    const original = await vintagesOf(code);
-    expect(original).toHaveLength(3);
+    expect(await vintagesOf(code)).toHaveLength(3);
     const csv = await viewer.get(`/api/v1/series/${code}/history?format=csv`).expect(200);
     expect(csv.headers['content-disposition']).toMatch(/T_HIST_OUT-history\.csv/);
-    const lines = csv.text.trim().split('\n');
+    const lines = (await expectLoadsBack(code, ['T_HIST_BACK_CSV', 'T_HIST_BACK_XLSX'])).trim().split('\n');
     expect(lines[1]).toBe('release date,2020-01-15,2020-04-15,2020-07-15');
     expect(lines[2]).toBe('period,vintage 1,vintage 2,vintage 3');
     expect(lines[3]).toBe('2000-Q1,100,100.5,100.25');
     expect(lines[12]).toBe('2002-Q2,,,109.25');
-    const xlsx = await viewer.get(`/api/v1/series/${code}/history?format=xlsx`).buffer(true).parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    }).expect(200);
-    for (const [copy, file, name] of [['T_HIST_BACK_CSV', Buffer.from(csv.text), 'back.csv'], ['T_HIST_BACK_XLSX', xlsx.body as Buffer, 'back.xlsx']] as const) {
-      await newSeries(copy);
-      await post(steward, copy, file, name).expect(201);
-      expect(await vintagesOf(copy), name).toEqual(original);
-    }
   });
 });
 
@@ -245,22 +249,9 @@ describe('history out, with missing values', () => {
     // Vintage 1 has no value for its first and last quarters; vintage 2 fills the last one and misses one inside.
     await steward.post(`/api/v1/series/${code}/vintages`).field('asOf', '2021-01-15').attach('file', single(['2020-Q1,', '2020-Q2,101', '2020-Q3,102', '2020-Q4,']), 'v1.csv').expect(201);
     await steward.post(`/api/v1/series/${code}/vintages`).field('asOf', '2021-04-15').attach('file', single(['2020-Q1,', '2020-Q2,101.5', '2020-Q3,', '2020-Q4,103', '2021-Q1,104']), 'v2.csv').expect(201);
-    const vintagesOf = async (c: string) => (await t.db('vintages as v').join('series as s', 's.id', 'v.series_id').where('s.code', c).orderBy('v.number').select('v.number', 'v.as_of', 'v.checksum', 'v.row_count')).map((r) => ({ ...r, as_of: String(r.as_of) }));
-    const original = await vintagesOf(code);
-    expect(original.map((v) => v.row_count)).toEqual([4, 5]);
-    const csv = await viewer.get(`/api/v1/series/${code}/history?format=csv`).expect(200);
-    const lines = csv.text.trim().split('\n');
+    expect((await vintagesOf(code)).map((v) => v.row_count)).toEqual([4, 5]);
+    const lines = (await expectLoadsBack(code, ['T_HIST_NA_CSV', 'T_HIST_NA_XLSX'])).trim().split('\n');
     expect(lines.slice(3)).toEqual(['2020-Q1,NA,NA', '2020-Q2,101,101.5', '2020-Q3,102,NA', '2020-Q4,NA,103', '2021-Q1,,104']);
-    const xlsx = await viewer.get(`/api/v1/series/${code}/history?format=xlsx`).buffer(true).parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    }).expect(200);
-    for (const [copy, file, name] of [['T_HIST_NA_CSV', Buffer.from(csv.text), 'back.csv'], ['T_HIST_NA_XLSX', xlsx.body as Buffer, 'back.xlsx']] as const) {
-      await newSeries(copy);
-      await post(steward, copy, file, name).expect(201);
-      expect(await vintagesOf(copy), name).toEqual(original);
-    }
   });
 
   it('reads NA in a load as a missing value', async () => {
