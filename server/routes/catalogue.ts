@@ -9,7 +9,7 @@ import { answerWithProgress } from '../lib/stream.js';
 import { asOfQuerySchema, createSeriesSchema, loadFieldsSchema, seriesListQuerySchema, updateSeriesSchema, type ObservationsAsOf } from '../schemas/catalogue.js';
 import { listLoads, loadFile, type LoadRequest } from '../services/catalogue/loads.js';
 import { revisionTriangle, revisions } from '../services/catalogue/revisions.js';
-import { createSeries, deleteSeries, listSeries, resolveSeriesRef, updateSeries } from '../services/catalogue/series.js';
+import { catalogueUnits, createSeries, deleteSeries, listSeries, resolveSeriesRef, updateSeries } from '../services/catalogue/series.js';
 import { listVintages, observationsAsOf, resolveVintage, vintageObservations } from '../services/catalogue/vintages.js';
 import { vintageExport } from '../services/exports.js';
 import { historyExportQuerySchema, historyFieldsSchema } from '../schemas/history.js';
@@ -50,6 +50,14 @@ export function catalogueRoutes(deps: AppDeps): RouteSpec[] {
       tags: ['catalogue'],
       query: seriesListQuerySchema,
       handler: ({ query }) => listSeries(db, query),
+    },
+    {
+      method: 'get',
+      path: '/catalogue/units',
+      access: 'signedIn',
+      summary: 'The units the series are kept in, with how many series each (for filtering GET /series by unit)',
+      tags: ['catalogue'],
+      handler: () => catalogueUnits(db),
     },
     {
       method: 'post',

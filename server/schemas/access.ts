@@ -52,7 +52,7 @@ export interface Page {
 /** The client's pages behind sign-in, in navigation order where they have an entry. */
 export const PAGES = [
   { path: '/', access: 'signedIn', api: [] },
-  { path: '/catalogue', access: 'signedIn', api: ['GET /api/v1/series'], nav: 'Catalogue' },
+  { path: '/catalogue', access: 'signedIn', api: ['GET /api/v1/series', 'GET /api/v1/catalogue/units'], nav: 'Catalogue' },
   { path: '/catalogue/new', access: ACCESS.catalogueWrite, api: ['POST /api/v1/series'] },
   { path: '/catalogue/loads', access: ACCESS.catalogueWrite, api: ['POST /api/v1/loads', 'GET /api/v1/loads'] },
   { path: '/catalogue/feeds', access: ACCESS.catalogueWrite, api: ['GET /api/v1/feeds', 'POST /api/v1/feeds', 'PATCH /api/v1/feeds/:id', 'DELETE /api/v1/feeds/:id', 'POST /api/v1/feeds/:id/run', 'GET /api/v1/feeds/:id/runs', 'GET /api/v1/series'] },

@@ -203,6 +203,8 @@ export const SERIES_PAGE_MAX = 500;
  * `GET /series` query: a search text over code and title, filters, and an optional page
  * (`limit`, `offset`). Without `limit` every matching series is answered, as before.
  */
+export const SERIES_SORTS = ['code', 'title', 'frequency', 'unit'] as const;
+
 export const seriesListQuerySchema = z.object({
   q: z.string().max(100, 'The search text has at most 100 characters.').optional(),
   frequency: z.enum(['A', 'Q', 'M'], { error: 'The frequency is A, Q or M.' }).optional(),
@@ -219,8 +221,16 @@ export const seriesListQuerySchema = z.object({
     .min(0, 'The offset is at least 0.')
     .max(2 ** 31, 'The offset is too large.')
     .optional(),
+  /** The order of the list (then by code): code (the default), title, frequency or unit. */
+  sort: z.enum(SERIES_SORTS, { error: `Sort by ${SERIES_SORTS.join(', ')}.` }).optional(),
+  order: z.enum(['asc', 'desc'], { error: 'The order is asc or desc.' }).optional(),
 });
 export type SeriesListQuery = z.infer<typeof seriesListQuerySchema>;
+
+/** `GET /catalogue/units`: the units series are kept in, with how many series each. */
+export interface CatalogueUnits {
+  items: { unit: string; series: number }[];
+}
 
 /** `GET /series`: the matching series in code order (one page when `limit` is given) and how many match in all. */
 export interface SeriesListAnswer {

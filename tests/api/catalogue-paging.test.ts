@@ -115,4 +115,24 @@ describe('The Catalogue in pages', () => {
       expect(res.body.error.details.map((d: { path: string }) => d.path)).toContain(path);
     }
   });
+
+  it('sorts by title, frequency or unit (then code), either way, on every page alike', async () => {
+    const pg = (await reference((q) => (q as any).where('code', 'like', 'PG\\_%'))).length;
+    for (const [sort, order] of [['title', 'asc'], ['unit', 'desc'], ['frequency', 'asc'], ['code', 'desc']] as const) {
+      const { items } = await allPages(`q=PG_&sort=${sort}&order=${order}`, 25);
+      expect(items).toHaveLength(pg);
+      const rows = await t.db('series').where('code', 'like', 'PG\\_%').orderBy([{ column: sort, order }, { column: 'code', order }]).select('code');
+      expect(items.map((s: Item) => s.code), `${sort} ${order}`).toEqual(rows.map((r: { code: string }) => r.code));
+    }
+    const bad = await reader.get('/api/v1/series?sort=notes').expect(400);
+    expect(bad.body.error.details.map((d: { path: string }) => d.path)).toContain('sort');
+  });
+
+  it('lists the units with how many series each, and filters by one', async () => {
+    const units = (await reader.get('/api/v1/catalogue/units').expect(200)).body.items as { unit: string; series: number }[];
+    const counted = await t.db('series').groupBy('unit').orderBy('unit').select('unit').count({ n: '*' });
+    expect(units).toEqual((counted as { unit: string; n: number }[]).map((r) => ({ unit: r.unit, series: Number(r.n) })));
+    const percent = units.find((u) => u.unit === 'percent')!;
+    expect((await reader.get('/api/v1/series?unit=percent&limit=1').expect(200)).body.total).toBe(percent.series);
+  });
 });

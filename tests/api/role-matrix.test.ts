@@ -61,6 +61,7 @@ export const MATRIX: Row[] = [
   { route: 'PUT /api/v1/profile/alerts', body: {}, allow: SIGNED_IN },
   // Catalogue: everyone signed in reads; stewards and admins write. Vintages never change (409).
   { route: 'GET /api/v1/series', allow: SIGNED_IN },
+  { route: 'GET /api/v1/catalogue/units', allow: SIGNED_IN },
   { route: 'POST /api/v1/series', body: {}, allow: STEWARDS },
   { route: 'GET /api/v1/series/:id', path: '/api/v1/series/999999', allow: SIGNED_IN },
   { route: 'PATCH /api/v1/series/:id', path: '/api/v1/series/999999', body: { title: 'x' }, allow: STEWARDS },

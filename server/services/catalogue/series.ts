@@ -2,7 +2,7 @@
 import type { Knex } from 'knex';
 import { fastQuery, type Db } from '../../db.js';
 import { conflict, notFound } from '../../lib/errors.js';
-import type { CreateSeriesBody, Series, SeriesListAnswer, SeriesListQuery } from '../../schemas/catalogue.js';
+import type { CatalogueUnits, CreateSeriesBody, Series, SeriesListAnswer, SeriesListQuery } from '../../schemas/catalogue.js';
 import { audit } from '../audit.js';
 import { dateOnly, iso, toSeries } from './rows.js';
 import { seriesHoldingPieces } from './search.js';
@@ -45,17 +45,20 @@ export async function listSeries(db: Db, filter: SeriesListQuery = {}): Promise<
   // Codes are unique, so code order is the same on every page. MariaDB takes OFFSET only after a
   // LIMIT: without one, the largest it accepts.
   const page = paged ? ` LIMIT ${filter.limit ?? '18446744073709551615'} OFFSET ${filter.offset ?? 0}` : '';
+  // The order: a column from the schema's list (never the request's text), then the code.
+  const dir = filter.order === 'desc' ? 'DESC' : 'ASC';
+  const orderBy = filter.sort && filter.sort !== 'code' ? `s.${filter.sort} ${dir}, s.code ${dir}` : `s.code ${dir}`;
   // The latest vintage through the (series_id, number) unique index: no scan of all vintages. Raw
   // SQL, as on the other hot read paths (building the query with Knex cost more than running it).
   // A page: the ids of its series through the index of codes first, then their rows (a derived
   // table of whole rows, notes and all, would be sorted through a temporary table).
-  const from = paged ? `(SELECT s.id FROM series s ${whereSql} ORDER BY s.code${page}) p JOIN series s ON s.id = p.id` : `series s`;
+  const from = paged ? `(SELECT s.id FROM series s ${whereSql} ORDER BY ${orderBy}${page}) p JOIN series s ON s.id = p.id` : `series s`;
   const [rows, counted] = await Promise.all([
     fastQuery(
       db,
       `SELECT s.*, v.number AS v_number, v.as_of AS v_as_of, v.created_at AS v_created_at, v.last_period AS v_last_period, v.row_count AS v_rows
          FROM ${from} LEFT JOIN vintages v ON v.series_id = s.id AND v.number = (SELECT MAX(v2.number) FROM vintages v2 WHERE v2.series_id = s.id)
-        ${paged ? '' : whereSql} ORDER BY s.code`,
+        ${paged ? '' : whereSql} ORDER BY ${orderBy}`,
       bindings,
     ),
     paged ? fastQuery<{ n: number }>(db, `SELECT COUNT(*) AS n FROM series s ${whereSql}`, bindings) : null,
@@ -65,6 +68,12 @@ export async function listSeries(db: Db, filter: SeriesListQuery = {}): Promise<
     latestVintage: r.v_number ? { number: r.v_number, asOf: dateOnly(r.v_as_of), loadedAt: iso(r.v_created_at)!, lastPeriod: r.v_last_period, rowCount: r.v_rows } : null,
   }));
   return { items, total: counted ? Number(counted[0].n) : items.length };
+}
+
+/** The units the Catalogue's series are kept in, with how many series each (the Catalogue page's unit filter). */
+export async function catalogueUnits(db: Db): Promise<CatalogueUnits> {
+  const rows = await fastQuery<{ unit: string; n: number }>(db, 'SELECT unit, COUNT(*) AS n FROM series GROUP BY unit ORDER BY unit', []);
+  return { items: rows.map((r) => ({ unit: r.unit, series: Number(r.n) })) };
 }
 
 export async function getSeries(db: Db | Knex.Transaction, id: number): Promise<Series> {
