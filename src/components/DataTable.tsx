@@ -17,15 +17,24 @@ export interface DataTableProps<T> {
   dense?: boolean;
   /** Names the table's box for keyboard users when it scrolls. */
   label?: string;
+  /** Sorting done elsewhere (the server): the table shows and changes this state, and sorts nothing itself. */
+  sorting?: SortingState;
+  onSortingChange?: (sorting: SortingState) => void;
 }
 
-export function DataTable<T>({ data, columns, globalFilter, initialSorting = [], empty = 'Nothing here yet.', onRowClick, testId, dense, label = 'Table' }: DataTableProps<T>) {
-  const [sorting, setSorting] = useState<SortingState>(initialSorting);
+export function DataTable<T>({ data, columns, globalFilter, initialSorting = [], empty = 'Nothing here yet.', onRowClick, testId, dense, label = 'Table', sorting: outside, onSortingChange }: DataTableProps<T>) {
+  const [own, setOwn] = useState<SortingState>(initialSorting);
+  const sorting = outside ?? own;
   const table = useReactTable({
     data,
     columns,
     state: { sorting, globalFilter },
-    onSortingChange: setSorting,
+    manualSorting: !!outside,
+    onSortingChange: (change) => {
+      const next = typeof change === 'function' ? change(sorting) : change;
+      if (outside) onSortingChange?.(next);
+      else setOwn(next);
+    },
     getCoreRowModel: getCoreRowModel(),
     getSortedRowModel: getSortedRowModel(),
     getFilteredRowModel: getFilteredRowModel(),

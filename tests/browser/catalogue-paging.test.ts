@@ -1,7 +1,8 @@
 /**
  * The Catalogue page at scale: it asks the server for one page of 50 series (never the whole
  * list), says which series it shows and of how many, pages by keyboard, searches and filters on
- * the server and keeps all of it in the address; it fits a phone. The start page counts the
+ * the server, sorts by a column header on the server, filters by unit, and keeps all of it in the
+ * address; it fits a phone. The start page counts the
  * series without reading them all.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -87,6 +88,28 @@ describe('Catalogue page in pages', () => {
     expect(await page.evaluate(() => document.documentElement.scrollWidth - window.innerWidth)).toBe(0);
     const box = await page.getByRole('button', { name: 'Next 50 →' }).boundingBox();
     expect(box!.x + box!.width).toBeLessThanOrEqual(390);
+  });
+
+  it('sorts on the server by a column header and filters by unit, both kept in the address', async () => {
+    const { page } = browser;
+    await page.setViewportSize({ width: 1440, height: 1000 });
+    await page.goto(`${t.url}/catalogue`);
+    const status = page.getByTestId('catalogue-count');
+    await expect.poll(() => status.innerText()).toBe(`Showing 1–50 of ${total} series`);
+    const firstCode = () => page.getByTestId('catalogue-table').locator('tbody tr td:first-child').first().innerText();
+    const titleHeader = page.getByRole('columnheader', { name: 'Title' });
+    for (const order of ['asc', 'desc'] as const) {
+      await titleHeader.getByRole('button').click();
+      const expected = (await t.db('series').orderBy([{ column: 'title', order }, { column: 'code', order }]).first('code')).code;
+      await expect.poll(firstCode).toBe(expected);
+      expect(new URL(page.url()).searchParams.get('sort')).toBe('title');
+      expect(await titleHeader.getAttribute('aria-sort')).toBe(order === 'asc' ? 'ascending' : 'descending');
+    }
+    const index = Number((await t.db('series').where('unit', 'index').count({ n: '*' }))[0].n);
+    await page.getByLabel('Filter by unit').selectOption({ label: `index (${index})` });
+    await expect.poll(() => status.innerText()).toBe(`Showing 1–50 of ${index} series that match`);
+    expect(new URL(page.url()).searchParams.get('unit')).toBe('index');
+    expect(new URL(page.url()).searchParams.get('sort')).toBe('title');
   });
 
   it('the series picker: a combobox that searches the server, marks series without a release, closes on Escape', async () => {

@@ -6,7 +6,10 @@ import { DataTable } from '@/components/DataTable';
 import { EmptyState, ErrorNote, formatDate, PageHeader, Spinner } from '@/components/ui';
 import { useMe } from '@/features/auth/api';
 import { useDebounced } from '@/lib/useDebounced';
-import { useSeriesPage, type SeriesListItem } from './api';
+import { useCatalogueUnits, useSeriesPage, type SeriesListItem } from './api';
+import { SERIES_SORTS, type SeriesListQuery } from '@schemas/catalogue';
+
+type SeriesSort = NonNullable<SeriesListQuery['sort']>;
 import { ACCESS, allows } from '@schemas/access';
 
 export function InventedBadge({ source }: { source: string }) {
@@ -23,14 +26,20 @@ export const CATALOGUE_PAGE_SIZE = 50;
 const count = (n: number) => n.toLocaleString('en-GB');
 
 /**
- * The Catalogue, searched and paged on the server: 50 series a page in code order, the search
- * (code or title) and the frequency filter in the address, so that Back returns to the same page.
+ * The Catalogue, searched, sorted and paged on the server: 50 series a page, in code order unless a
+ * column header says otherwise; the search (code or title), the frequency and unit filters and the
+ * order in the address, so that Back returns to the same page.
  */
 export function CataloguePage() {
   const me = useMe();
   const navigate = useNavigate();
   const [params, setParams] = useSearchParams();
   const frequency = params.get('frequency') ?? '';
+  const unit = params.get('unit') ?? '';
+  // The order, kept in the address: a column the server sorts by (then by code), either way.
+  const sort = (SERIES_SORTS as readonly string[]).includes(params.get('sort') ?? '') ? (params.get('sort') as SeriesSort) : 'code';
+  const order = params.get('order') === 'desc' ? 'desc' : 'asc';
+  const units = useCatalogueUnits();
   const pageNumber = Math.max(1, Number(params.get('page')) || 1);
   const [q, setQ] = useState(params.get('q') ?? '');
   const searched = useDebounced(q.trim(), 300);
@@ -52,7 +61,7 @@ export function CataloguePage() {
     if (searched !== (params.get('q') ?? '')) change({ q: searched });
   }, [searched]);
   const offset = (pageNumber - 1) * CATALOGUE_PAGE_SIZE;
-  const list = useSeriesPage({ q: params.get('q') || undefined, frequency: (frequency || undefined) as 'A' | undefined, limit: CATALOGUE_PAGE_SIZE, offset });
+  const list = useSeriesPage({ q: params.get('q') || undefined, frequency: (frequency || undefined) as 'A' | undefined, unit: unit || undefined, sort, order, limit: CATALOGUE_PAGE_SIZE, offset });
   const canEdit = allows(ACCESS.catalogueWrite, me.data?.roles);
   const columns = useMemo<ColumnDef<SeriesListItem, any>[]>(
     () =>
@@ -64,12 +73,12 @@ export function CataloguePage() {
       { id: 'vintage', header: 'Latest vintage', accessorFn: (s) => s.latestVintage?.number ?? 0, meta: { numeric: true }, cell: (c) => c.row.original.latestVintage?.number ?? '—' },
       { id: 'asOf', header: 'Data as of', accessorFn: (s) => s.latestVintage?.asOf ?? '', cell: (c) => formatDate(c.getValue() || null) },
       { id: 'last', header: 'Last period', accessorFn: (s) => s.latestVintage?.lastPeriod ?? '', cell: (c) => c.getValue() || '—' },
-    ] as ColumnDef<SeriesListItem, any>[]).map((column) => ({ ...column, enableSorting: false })),
+    ] as ColumnDef<SeriesListItem, any>[]).map((column) => ({ ...column, enableSorting: (SERIES_SORTS as readonly string[]).includes(String((column as { accessorKey?: string }).accessorKey)) })),
     [],
   );
   const total = list.data?.total ?? 0;
   const rows = list.data?.items ?? [];
-  const filtered = !!params.get('q') || !!frequency;
+  const filtered = !!params.get('q') || !!frequency || !!unit;
   const last = Math.max(1, Math.ceil(total / CATALOGUE_PAGE_SIZE));
   const go = (n: number) => change({ page: n > 1 ? String(n) : '' });
   return (
@@ -102,6 +111,14 @@ export function CataloguePage() {
           <option value="Q">quarterly</option>
           <option value="M">monthly</option>
         </select>
+        <select className="field max-w-[14rem]" value={unit} onChange={(e) => change({ unit: e.target.value })} aria-label="Filter by unit">
+          <option value="">All units</option>
+          {units.data?.items.map((u) => (
+            <option key={u.unit} value={u.unit}>
+              {u.unit} ({count(u.series)})
+            </option>
+          ))}
+        </select>
       </div>
       <p role="status" className="mb-2 text-sm text-ink-soft" data-testid="catalogue-count">
         {list.isPending || list.isPlaceholderData ? 'Loading the Catalogue…' : list.data && total > 0 ? `Showing ${count(offset + 1)}–${count(offset + rows.length)} of ${count(total)} series${filtered ? ' that match' : ''}` : list.data && filtered ? 'No series match.' : ''}
@@ -113,7 +130,16 @@ export function CataloguePage() {
       ) : (
         list.data && (
           <div aria-busy={list.isPlaceholderData} className={list.isPlaceholderData ? 'opacity-60' : ''}>
-            <DataTable data={rows} columns={columns} onRowClick={(s) => navigate(`/catalogue/${s.id}`)} testId="catalogue-table" label="Catalogue series" empty={offset > 0 ? 'This page is past the last series.' : 'No series match.'} />
+            <DataTable
+              data={rows}
+              columns={columns}
+              sorting={[{ id: sort, desc: order === 'desc' }]}
+              onSortingChange={(next) => change({ sort: next[0] && next[0].id !== 'code' ? next[0].id : '', order: next[0]?.desc ? 'desc' : '' })}
+              onRowClick={(s) => navigate(`/catalogue/${s.id}`)}
+              testId="catalogue-table"
+              label="Catalogue series"
+              empty={offset > 0 ? 'This page is past the last series.' : 'No series match.'}
+            />
           </div>
         )
       )}

@@ -1,6 +1,6 @@
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { api } from '@/lib/api';
-import type { CreateSeriesBody, FileProblem, LoadAnswer, LoadPreview, LoadSummary, RevisionRow, RevisionSummary, Series, SeriesListAnswer, SeriesListItem, SeriesListQuery, Vintage } from '@schemas/catalogue';
+import type { CatalogueUnits, CreateSeriesBody, FileProblem, LoadAnswer, LoadPreview, LoadSummary, RevisionRow, RevisionSummary, Series, SeriesListAnswer, SeriesListItem, SeriesListQuery, Vintage } from '@schemas/catalogue';
 import { useUpload } from '@/lib/upload';
 import type { HistoryAnswer, HistoryPreview, HistoryVintage } from '@schemas/history';
 
@@ -18,6 +18,8 @@ export function useSeriesPage(query: SeriesListQuery, enabled = true) {
   for (const [key, value] of Object.entries(query)) if (value !== undefined && value !== '') params.set(key, String(value));
   return useQuery({ queryKey: ['series', 'page', params.toString()], queryFn: () => api<SeriesListAnswer>(`/series?${params}`), placeholderData: keepPreviousData, enabled });
 }
+/** The units series are kept in, with how many series each (the Catalogue's unit filter). */
+export const useCatalogueUnits = () => useQuery({ queryKey: ['series', 'units'], queryFn: () => api<CatalogueUnits>('/catalogue/units') });
 export type SeriesDetail = Series & { vintageCount: number; latestVintage: Vintage | null };
 export const useSeries = (id: number) => useQuery({ queryKey: ['series', id], queryFn: () => api<SeriesDetail>(`/series/${id}`) });
 /** A series named by its id or its code; nothing is asked before one is named. */
