@@ -87,9 +87,26 @@ describe('release alerts through the outbox', () => {
     expect((await t.db('alert_jobs').where('id', job.id).first()).attempts).toBe(2);
   });
 
+  it('a mail the mail server does not take is sent by a later sweep, once', async () => {
+    t.mail.clear();
+    // A mail server that is away: nothing listens on the port.
+    const away = { ...deps, mailer: createMailer(t.config, createLogger('silent'), 9) };
+    await loadFile(t.db, { file: { buffer: csv(level(44)), filename: 'v5.csv' }, fields: {}, dryRun: false, seriesId, actor: { id: stewardId }, alerts: away });
+    expect(await sweepReleaseAlerts(away)).toBe(0);
+    const job = (await jobs()).at(-1);
+    expect([job.done_at, job.attempts]).toEqual([null, 1]);
+    expect(job.last_error).toMatch(/did not take 1 of 1 messages/);
+    expect(t.mail.messages()).toHaveLength(0);
+    // Its retry time comes; the mail server is back.
+    await t.db('alert_jobs').where('id', job.id).update({ claimed_until: t.db.raw('NOW(3) - INTERVAL 1 SECOND') });
+    expect(await sweepReleaseAlerts(deps)).toBe(1);
+    expect(mailsTo('follower@outbox.test')).toHaveLength(1);
+    expect(JSON.parse((await t.db('alert_jobs').where('id', job.id).first()).payload).served).toEqual(['follower@outbox.test']);
+  });
+
   it('a refused load queues nothing', async () => {
     const before = (await jobs()).length;
-    await steward.post(`/api/v1/series/${seriesId}/vintages`).attach('file', csv(level(43)), 'same.csv').expect(409);
+    await steward.post(`/api/v1/series/${seriesId}/vintages`).attach('file', csv(level(44)), 'same.csv').expect(409);
     await steward.post(`/api/v1/series/${seriesId}/vintages`).attach('file', Buffer.from('period,value\n2000-Q1,abc\n'), 'bad.csv').expect(422);
     expect(await jobs()).toHaveLength(before);
   });

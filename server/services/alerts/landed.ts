@@ -50,11 +50,14 @@ export function describeMove(m: StudyMove): string {
   return `“${m.title}” (${m.seriesCode}; ${m.methodLine}; ${why}). Last gap estimate: ${gap(m.before)} on vintage ${m.before.vintage}, now ${gap(m.after)} on vintage ${m.after.vintage} (${m.unitOfCycle}). ${revision}`;
 }
 
-/** Computes and sends the alerts of a release (the background work of `notifyVintagesLanded`); returns the mails sent. */
-export async function sendReleaseAlerts(deps: AlertDeps, landed: VintagesLanded): Promise<{ to: string; studies: number[] }[]> {
+/**
+ * Computes and sends the alerts of a release; returns the mails sent and the addresses whose mail
+ * the mail server did not take. Addresses in `served` (sent by an earlier attempt) are skipped.
+ */
+export async function sendReleaseAlerts(deps: AlertDeps, landed: VintagesLanded, served: ReadonlySet<string> = new Set()): Promise<{ sent: { to: string; studies: number[] }[]; failed: string[] }> {
   const series = 'series' in landed ? landed.series : [{ seriesId: landed.seriesId, numbers: landed.numbers }];
   const recipients = await affectedPeople(deps.db, series.map((s) => s.seriesId));
-  if (!recipients.length) return [];
+  if (!recipients.length) return { sent: [], failed: [] };
   const moves = await studyMoves(deps.db, deps.pool, series, recipients);
   const codes: { id: number; code: string }[] = await deps.db('series').whereIn('id', series.map((s) => s.seriesId)).select('id', 'code');
   const what = series
@@ -62,7 +65,9 @@ export async function sendReleaseAlerts(deps: AlertDeps, landed: VintagesLanded)
     .join(', ');
   const from = landed.label ?? { load: 'a load', history: 'a history load', feed: 'a feed run' }[landed.source];
   const sent: { to: string; studies: number[] }[] = [];
+  const failed: string[] = [];
   for (const r of recipients) {
+    if (served.has(r.email)) continue;
     const mine: StudyMove[] = [...r.studies].filter(([id]) => moves.has(id)).map(([id, why]) => ({ ...moves.get(id)!, because: [...why] }));
     if (!mine.length) continue;
     const { text, html } = composeMail({
@@ -77,7 +82,8 @@ export async function sendReleaseAlerts(deps: AlertDeps, landed: VintagesLanded)
     });
     const subject = `New data: ${what}`.slice(0, 200);
     if (await deps.mailer.send({ to: r.email, subject, text, html })) sent.push({ to: r.email, studies: mine.map((m) => m.studyId) });
+    else failed.push(r.email);
   }
-  deps.logger?.info({ sent: sent.length, source: landed.source }, 'release alerts sent');
-  return sent;
+  deps.logger?.info({ sent: sent.length, failed: failed.length, source: landed.source }, 'release alerts sent');
+  return { sent, failed };
 }
