@@ -36,10 +36,11 @@ export function authenticate(db: Db, lucia: AppLucia, tokens: TokenMemory): Requ
     req.auth = null;
     const read = SAFE.has(req.method);
     if (!read) {
-      // A change through this instance may revoke a token or change roles: forget every check,
-      // now and when it is done.
-      tokens.forget();
-      res.once('finish', () => tokens.forget());
+      // A change through this instance may revoke a token or change roles: once it is done (or
+      // its client gone), forget every check, and keep none begun before (token-memory.ts). A
+      // refused change changed nothing.
+      res.once('finish', () => res.statusCode < 400 && tokens.forget());
+      res.once('close', () => !res.writableFinished && tokens.forget());
     }
     try {
       const header = req.headers.authorization;

@@ -40,7 +40,11 @@ async function onWorkers<T>(work: () => Promise<T>): Promise<[T, number]> {
 
 describe('where a study is computed', () => {
   it('a study of unobserved components on a worker thread, with the numbers the request thread gives', async () => {
-    const s = (await economist.post('/api/v1/studies').send({ title: 'UC gap', ...spec({ method: 'uc', params: { trend: 'local-linear' } }) }).expect(201)).body;
+    // Saving checks the specification by computing it once: on a worker too, as is a change.
+    const [created, saving] = await onWorkers(() => economist.post('/api/v1/studies').send({ title: 'UC gap', ...spec({ method: 'uc', params: { trend: 'local-linear' } }) }).expect(201));
+    expect(saving).toBe(1);
+    const s = created.body;
+    expect((await onWorkers(() => economist.patch(`/api/v1/studies/${s.id}`).send({ title: 'UC gap, renamed' }).expect(200)))[1]).toBe(1);
     const [res, tasks] = await onWorkers(() => economist.get(`/api/v1/studies/${s.id}/result`).expect(200));
     expect(tasks).toBe(1);
     const inline = JSON.parse(JSON.stringify(await computeSpec(t.db, { ...s, asOf: null })));

@@ -181,7 +181,8 @@ export async function updateFeed(db: Db, actorId: number, id: number, body: Upda
     ...(body.enabled !== undefined ? { enabled: body.enabled } : {}),
   };
   const schedule = body.schedule !== undefined ? body.schedule : before.schedule;
-  const restart = schedule && (body.enabled === true || (body.schedule !== undefined && body.schedule !== before.schedule));
+  // Resumed (it was paused) or given another schedule: its next time counts, not one that passed.
+  const restart = schedule && ((body.enabled === true && !before.enabled) || (body.schedule !== undefined && body.schedule !== before.schedule));
   await transaction(db, async (trx) => {
     await trx('feeds').where({ id }).update(change);
     if (restart) await trx('feed_leases').where('feed_id', id).update({ last_slot: latestSlot(schedule, new Date()) });
@@ -195,8 +196,9 @@ export async function updateFeed(db: Db, actorId: number, id: number, body: Upda
 export async function deleteFeed(db: Db, actorId: number, id: number, ip?: string): Promise<void> {
   const feed = await getStoredFeed(db, id);
   await transaction(db, async (trx) => {
-    const lease = await trx('feed_leases').where('feed_id', id).forUpdate().first();
-    if (lease?.holder && lease.expires_at && new Date(lease.expires_at) > new Date()) throw conflict('feed_running', `“${feed.name}” is running now; delete it once the run has finished.`);
+    // The database's clock decides whether a lease has run out, as everywhere else (lease.ts).
+    const lease = await trx('feed_leases').where('feed_id', id).whereNotNull('holder').where('expires_at', '>', trx.raw('NOW(3)')).forUpdate().first();
+    if (lease) throw conflict('feed_running', `“${feed.name}” is running now; delete it once the run has finished.`);
     await trx('feeds').where({ id }).delete();
     await audit(trx, { actorId, action: 'feed.delete', targetType: 'feed', targetId: id, details: { name: feed.name, url: feed.url }, ip });
   });

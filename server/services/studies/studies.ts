@@ -101,7 +101,7 @@ async function checkSpec(db: Db, pool: AnalysisPool | undefined, kind: Study['ki
     const r = await runRangeSpec(db, pool, { ...spec, methods: spec.methods! });
     return { method: RANGE, params: '{}', methods: JSON.stringify(r.items.map((i) => ({ method: i.method, params: i.params }))) };
   }
-  const { params } = await runSpec(db, spec);
+  const { params } = await runSpec(db, spec, { pool });
   return { method: spec.method, params: JSON.stringify(params), methods: null };
 }
 
