@@ -131,6 +131,13 @@ describe('range studies', () => {
     });
     const xlsx = await economist.get(`/api/v1/studies/${s.id}/export?format=xlsx`).expect(200);
     expect(xlsx.headers['content-type']).toMatch(/spreadsheetml/);
+    // A method listed twice is told apart by its parameters, in the answer and so in every legend and download.
+    const twice = (await economist.post('/api/v1/studies/range').send({ seriesId: gdpId, vintage: 4, transform: 'log100', methods: [{ method: 'hp', params: { lambda: 1600 } }, { method: 'hp', params: { lambda: 400 } }, { method: 'hamilton' }] }).expect(200)).body;
+    const twiceNames = twice.items.map((it: { name: string }) => it.name);
+    expect(new Set(twiceNames).size).toBe(3);
+    expect(twiceNames[0]).toMatch(/1 600/);
+    expect(twiceNames[1]).toMatch(/400/);
+    expect(twiceNames[2]).toBe('Hamilton regression filter');
   });
 
   it('what only a study of one method has refuses a range study and says what to do', async () => {

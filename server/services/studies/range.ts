@@ -44,7 +44,8 @@ export async function rangeOfEstimates(db: Db, pool: AnalysisPool | undefined, b
     items: answers.map((a, k) => ({
       method: a.method,
       params: a.params,
-      name: methodName(a.method),
+      // A method listed twice (HP at two λ) is named with its parameters, in legends and downloads alike.
+      name: answers.filter((b) => b.method === a.method).length > 1 ? methodLine(a.method, a.params, undefined, a.diagnostics) : methodName(a.method),
       methodLine: methodLine(a.method, a.params, undefined, a.diagnostics),
       twoSided: findMethod(a.method)!.twoSided,
       cycle: aligned.values[k],
