@@ -70,8 +70,11 @@ function cell(col: ExportColumn, v: string | number | null) {
   return safeText(String(v));
 }
 
+/** A value that already starts with its label ("Caution: …", "Sources: …") is not labelled again. */
+const unlabelled = (k: string, v: string) => (new RegExp(`^${k.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}s?:\\s*`, 'i').test(v) ? v.replace(/^[^:]*:\s*/, '') : v);
+
 /** A commented line: no line breaks, and no "#" after the first (pandas cuts a line at its comment character). */
-const comment = (k: string, v: string) => `# ${k}: ${v}`.replace(/[\r\n]+/g, ' ').replace(/(?!^)#/g, '№');
+const comment = (k: string, v: string) => `# ${k}: ${unlabelled(k, v)}`.replace(/[\r\n]+/g, ' ').replace(/(?!^)#/g, '№');
 
 export function toCsv(table: ExportTable): string {
   const kinds = table.columns.map((c) => c.kind);
@@ -95,7 +98,7 @@ export async function toXlsx(table: ExportTable): Promise<Buffer> {
   ws.views = [{ state: 'frozen', ySplit: 1 }];
   if (table.about?.length) {
     const about = wb.addWorksheet('About');
-    for (const [k, v] of table.about) about.addRow([safeText(k), safeText(v)]);
+    for (const [k, v] of table.about) about.addRow([safeText(k), safeText(unlabelled(k, v))]);
     about.getColumn(1).width = 18;
     about.getColumn(2).width = 100;
   }

@@ -46,12 +46,12 @@ describe('POST /api/v1/studies/range', () => {
     expect(b.items.map((i: { method: string }) => i.method)).toEqual(['hp', 'hamilton', 'bn-filter', 'hp-forecast']);
     expect(b.items[2].params).toEqual({ p: 12, delta: 0.3 });
     expect(b.items.map((i: { name: string }) => i.name)).toContain('Beveridge–Nelson filter');
-    // The forecast extension adds 4 periods on which no method has a cycle.
+    // The forecast extension's 4 periods, on which no method has a cycle, are not part of the range.
     const preview = (await economist.post('/api/v1/studies/preview').send({ seriesId: gdpId, vintage: 4, transform: 'log100', method: 'hp' }).expect(200)).body;
-    expect(b.periods).toHaveLength(preview.periods.length + 4);
-    expect(b.items[0].cycle.slice(0, preview.periods.length)).toEqual(preview.cycle);
-    expect(b.count.slice(-4)).toEqual([0, 0, 0, 0]);
-    expect(b.median.at(-1)).toBeNull();
+    expect(b.periods).toEqual(preview.periods);
+    expect(b.items[0].cycle).toEqual(preview.cycle);
+    expect(b.count.at(-1)).toBeGreaterThan(0);
+    expect(b.median.at(-1)).not.toBeNull();
     for (let i = 0; i < b.periods.length; i++) {
       const present = b.items.map((it: { cycle: (number | null)[] }) => it.cycle[i]).filter((v: number | null) => v !== null).sort((x: number, y: number) => x - y);
       expect(b.count[i]).toBe(present.length);

@@ -165,7 +165,8 @@ describe('studies', () => {
     const s = (await economist.post('/api/v1/studies').send(study({ title: 'export', vintage: 2 })).expect(201)).body;
     const csv = await economist.get(`/api/v1/studies/${s.id}/export?format=csv`).expect(200);
     const lines = csv.text.trim().split('\n').filter((l) => !l.startsWith('#'));
-    expect(csv.text).toMatch(/^# Caution: /m);
+    expect(csv.text).toMatch(/^# Caution: end-of-sample estimates are revised/m);
+    expect(csv.text).not.toMatch(/Caution: Caution/);
     expect(lines[0]).toBe('period,"input, EST$ million, chained 2020 prices (100 × log)","trend, EST$ million, chained 2020 prices (100 × log)","cycle, % of trend (100 × log)",method,vintage');
     expect(lines[1]).toMatch(/^1995-Q1,/);
     expect(lines[1]).toContain('"Hodrick–Prescott, λ = 1 600; 100 × log",');
@@ -174,7 +175,7 @@ describe('studies', () => {
     const wb = new ExcelJS.Workbook();
     await wb.xlsx.load(x.body as never);
     expect(wb.worksheets.map((w) => w.name)).toEqual(['Observations', 'About']);
-    expect(wb.worksheets[1].getSheetValues().some((r) => Array.isArray(r) && r[1] === 'Caution' && /Caution/.test(String(r[2])))).toBe(true);
+    expect(wb.worksheets[1].getSheetValues().some((r) => Array.isArray(r) && r[1] === 'Caution' && /^end-of-sample estimates are revised/.test(String(r[2])))).toBe(true);
   });
 });
 

@@ -32,7 +32,12 @@ export async function rangeOfEstimates(db: Db, pool: AnalysisPool | undefined, b
     const a = answers[failed];
     throw new HttpError(400, a.error.code, `methods[${failed}] (${methodName(body.methods[failed].method)}): ${a.error.message}`, [{ path: `methods.${failed}`, message: a.error.message }]);
   }
-  const aligned = alignByPeriod(answers.map((a) => ({ periods: a.periods ?? data.periods, values: a.cycle })));
+  // A method that forecasts past the data (HP with a forecast extension) answers periods where it
+  // gives no cycle: the range ends at the last period some method estimated.
+  const all = alignByPeriod(answers.map((a) => ({ periods: a.periods ?? data.periods, values: a.cycle })));
+  let end = all.periods.length;
+  while (end > 0 && all.values.every((v) => v[end - 1] === null)) end--;
+  const aligned = { periods: all.periods.slice(0, end), values: all.values.map((v) => v.slice(0, end)) };
   const range = rangeAcross(aligned.values.map(toNaN));
   return {
     series: { id: data.series.id, code: data.series.code, title: data.series.title, unit: data.series.unit, frequency, source: data.series.source },

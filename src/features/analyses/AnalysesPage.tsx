@@ -50,7 +50,7 @@ export function AnalysesPage() {
               />
             </Field>
             <Field label="Transform" htmlFor="analyses-transform">
-              <select id="analyses-transform" className="input w-full" value={transform} onChange={(e) => setTransform(e.target.value as Transform)}>
+              <select id="analyses-transform" className="field w-full" value={transform} onChange={(e) => setTransform(e.target.value as Transform)}>
                 <option value="log100">100 × log</option>
                 <option value="log">log</option>
                 <option value="none">none</option>

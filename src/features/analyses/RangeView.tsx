@@ -44,7 +44,7 @@ export function RangeView({ seriesId, code, transform, methods }: Props) {
           }}
         >
           <Field label="Study title" htmlFor="range-study-title">
-            <input id="range-study-title" className="input w-72 max-w-full" value={title} onChange={(e) => setTitle(e.target.value)} />
+            <input id="range-study-title" className="field w-72 max-w-full" value={title} onChange={(e) => setTitle(e.target.value)} />
           </Field>
           <button className="btn" disabled={save.isPending}>
             Save as study

@@ -78,7 +78,7 @@ export function ReliabilityView({ seriesId, code, transform, methods }: Props) {
           <div className="card space-y-2 p-3">
             <h2 className="font-heading text-sm font-bold">Revision band: how far past end-of-sample estimates were revised</h2>
             <Field label="Method" htmlFor="band-method">
-              <select id="band-method" className="input" value={bandOf} onChange={(e) => setBandOf(Number(e.target.value))}>
+              <select id="band-method" className="field w-auto" value={bandOf} onChange={(e) => setBandOf(Number(e.target.value))}>
                 {result.items.map((i, k) => (
                   <option key={i.method} value={k}>
                     {i.name}
