@@ -66,7 +66,7 @@ export function chartData(option: unknown): ChartData {
     }
     for (const area of (s.markArea?.data ?? []) as Any[][]) {
       const [a, b] = area ?? [];
-      const text = labelOf(a) ?? labelOf(s.markArea);
+      const text = labelOf(a) ?? (typeof a?.name === 'string' && a.name ? a.name : null) ?? labelOf(s.markArea);
       const from = at(a?.xAxis, 'from');
       const to = at(b?.xAxis, 'to');
       if (text && from !== undefined && to !== undefined) marks.push(`${from} to ${to} shaded: ${text}`);

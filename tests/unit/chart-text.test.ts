@@ -25,6 +25,11 @@ describe('chart text alternatives', () => {
     );
   });
 
+  it('names every contraction of a chronology, not only the first, which alone is labelled on the chart', () => {
+    const d = chartData(cycleChart({ periods, cycle, unit: '% of trend', contractions: { name: 'Invented chronology', ranges: [{ from: 1, to: 2 }, { from: 5, to: 6 }] } }));
+    expect(d.marks).toEqual(['2023-Q2 to 2023-Q3 shaded: Invented chronology', '2024-Q2 to 2024-Q3 shaded: Invented chronology']);
+  });
+
   it('names each line’s latest value and its period when lines end apart', () => {
     const d = chartData(
       compareChart({

@@ -112,6 +112,8 @@ export interface PeriodBand {
   labelPosition?: string;
   /** Lift the label just above the plot area, clear of the data and of the latest-observation label. */
   labelAbove?: boolean;
+  /** What the band is, for the text alternative, when it shows no label of its own (the second contraction on). */
+  name?: string;
 }
 
 /** The id of the series that carries a chart's shaded bands (chart-text.ts reads its marks, not its values). */
@@ -154,6 +156,7 @@ export function bandLayer(n: number, bands: (PeriodBand | undefined)[], bars: bo
       data: list.map((b) => [
         {
           xAxis: b.from - edge,
+          name: b.name ?? b.label,
           itemStyle: { color: b.color },
           label: b.label ? { show: true, position: b.labelPosition ?? 'insideTop', offset: b.labelAbove ? [0, -17] : [0, 0], color: b.labelColor ?? COLORS.inkSoft, fontFamily: FONT, fontSize: 11, formatter: b.label } : { show: false },
         },

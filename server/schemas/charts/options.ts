@@ -51,7 +51,7 @@ interface Shading {
 
 /** A chronology's contractions as shaded bands, the first labelled with the chronology's name. */
 export function contractionBands(c: ContractionMarks | undefined): PeriodBand[] {
-  return (c?.ranges ?? []).map((r, i) => ({ ...r, color: COLORS.contraction, label: i === 0 ? c!.name : undefined, labelPosition: 'insideTopLeft' }));
+  return (c?.ranges ?? []).map((r, i) => ({ ...r, color: COLORS.contraction, label: i === 0 ? c!.name : undefined, name: c!.name, labelPosition: 'insideTopLeft' }));
 }
 
 /** The bands of a chart: contractions first (underneath), then the end of sample and the extension. */
