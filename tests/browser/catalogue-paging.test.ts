@@ -50,6 +50,8 @@ describe('Catalogue page in pages', () => {
     await page.keyboard.press('Enter');
     await expect.poll(() => status.innerText()).toBe(`Showing 51–100 of ${total} series`);
     expect(new URL(page.url()).searchParams.get('page')).toBe('2');
+    // Focus moves to the new page's count, not to the top of the document.
+    expect(await status.evaluate((el) => el === document.activeElement)).toBe(true);
     const second = await page.getByTestId('catalogue-table').locator('tbody tr td:first-child').allInnerTexts();
     expect(second[0] > codes[49]).toBe(true);
     // The last page is short and has no next page.
@@ -60,6 +62,11 @@ describe('Catalogue page in pages', () => {
     expect(await page.getByRole('button', { name: 'Next 50 →' }).isDisabled()).toBe(true);
     await page.getByRole('button', { name: '← Previous 50' }).click();
     await expect.poll(() => status.innerText()).toBe(`Showing ${(last - 2) * 50 + 1}–${(last - 1) * 50} of ${total} series`);
+    // A page past the end says so and leads back to the last one.
+    await page.goto(`${t.url}/catalogue?page=999`);
+    await expect.poll(() => status.innerText()).toBe(`Page 999 is past the last page, ${last}.`);
+    await page.getByRole('button', { name: 'Go to the last page' }).click();
+    await expect.poll(() => status.innerText()).toBe(`Showing ${(last - 1) * 50 + 1}–${total} of ${total} series`);
 
     // A search runs on the server and starts again at page 1; the frequency filter narrows it.
     await page.getByLabel('Search the Catalogue').fill('paging test series 1');

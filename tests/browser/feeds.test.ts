@@ -97,8 +97,11 @@ describe('a steward registers and runs a feed', () => {
   it('pauses and resumes its schedule, then deletes it after asking; the vintage it stored stays', async () => {
     const { page } = browser;
     const card = page.getByRole('listitem').filter({ has: page.getByRole('heading', { name: 'Estuary hours worked' }) });
-    await card.getByRole('button', { name: 'Pause schedule' }).click();
+    await card.getByRole('button', { name: 'Pause schedule' }).focus();
+    await page.keyboard.press('Enter');
     await expect.poll(() => card.innerText()).toMatch(/— paused/);
+    // Focus stays on the button, which now resumes.
+    expect(await card.getByRole('button', { name: 'Resume schedule' }).evaluate((el) => el === document.activeElement)).toBe(true);
     expect(await card.innerText()).toMatch(/Next run: —/);
     expect((await t.db('feeds').where('name', 'Estuary hours worked').first()).enabled).toBeFalsy();
     await page.screenshot({ path: path.join(os.tmpdir(), 'tg-feeds-paused-1440.png'), fullPage: true });

@@ -1,5 +1,5 @@
 import type { ColumnDef } from '@tanstack/react-table';
-import { useEffect, useMemo, useState } from 'react';
+import { useEffect, useMemo, useRef, useState } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import { FREQUENCY_LABELS } from '@schemas/frequency';
 import { DataTable } from '@/components/DataTable';
@@ -71,8 +71,8 @@ export function CataloguePage() {
       { accessorKey: 'frequency', header: 'Frequency', cell: (c) => FREQUENCY_LABELS[c.getValue() as 'A'] },
       { accessorKey: 'unit', header: 'Unit' },
       { id: 'vintage', header: 'Latest vintage', accessorFn: (s) => s.latestVintage?.number ?? 0, meta: { numeric: true }, cell: (c) => c.row.original.latestVintage?.number ?? '—' },
-      { id: 'asOf', header: 'Data as of', accessorFn: (s) => s.latestVintage?.asOf ?? '', cell: (c) => formatDate(c.getValue() || null) },
-      { id: 'last', header: 'Last period', accessorFn: (s) => s.latestVintage?.lastPeriod ?? '', cell: (c) => c.getValue() || '—' },
+      { id: 'asOf', header: 'Data as of', accessorFn: (s) => s.latestVintage?.asOf ?? '', cell: (c) => <span className="whitespace-nowrap">{formatDate(c.getValue() || null)}</span> },
+      { id: 'last', header: 'Last period', accessorFn: (s) => s.latestVintage?.lastPeriod ?? '', cell: (c) => <span className="whitespace-nowrap">{c.getValue() || '—'}</span> },
     ] as ColumnDef<SeriesListItem, any>[]).map((column) => ({ ...column, enableSorting: (SERIES_SORTS as readonly string[]).includes(String((column as { accessorKey?: string }).accessorKey)) })),
     [],
   );
@@ -80,7 +80,16 @@ export function CataloguePage() {
   const rows = list.data?.items ?? [];
   const filtered = !!params.get('q') || !!frequency || !!unit;
   const last = Math.max(1, Math.ceil(total / CATALOGUE_PAGE_SIZE));
-  const go = (n: number) => change({ page: n > 1 ? String(n) : '' });
+  const status = useRef<HTMLParagraphElement>(null);
+  // A new page: focus and show its count, at the top of the table (a disabled Next would drop focus).
+  const go = (n: number) => {
+    change({ page: n > 1 ? String(n) : '' });
+    requestAnimationFrame(() => {
+      status.current?.focus();
+      status.current?.scrollIntoView({ block: 'nearest' });
+    });
+  };
+  const pastEnd = !!list.data && !list.isPlaceholderData && total > 0 && rows.length === 0 && offset > 0;
   return (
     <>
       <PageHeader
@@ -120,8 +129,8 @@ export function CataloguePage() {
           ))}
         </select>
       </div>
-      <p role="status" className="mb-2 text-sm text-ink-soft" data-testid="catalogue-count">
-        {list.isPending || list.isPlaceholderData ? 'Loading the Catalogue…' : list.data && total > 0 ? `Showing ${count(offset + 1)}–${count(offset + rows.length)} of ${count(total)} series${filtered ? ' that match' : ''}` : list.data && filtered ? 'No series match.' : ''}
+      <p role="status" ref={status} tabIndex={-1} className="mb-2 text-sm text-ink-soft" data-testid="catalogue-count">
+        {list.isPending || list.isPlaceholderData ? 'Loading the Catalogue…' : pastEnd ? `Page ${count(pageNumber)} is past the last page, ${count(last)}.` : list.data && total > 0 ? `Showing ${count(offset + 1)}–${count(offset + rows.length)} of ${count(total)} series${filtered ? ' that match' : ''}` : list.data && filtered ? 'No series match.' : ''}
       </p>
       {list.isPending && <Spinner />}
       <ErrorNote error={list.error} />
@@ -143,7 +152,12 @@ export function CataloguePage() {
           </div>
         )
       )}
-      {list.data && total > CATALOGUE_PAGE_SIZE && (
+      {pastEnd && (
+        <button type="button" className="btn-quiet mt-3" onClick={() => go(last)}>
+          Go to the last page
+        </button>
+      )}
+      {list.data && total > CATALOGUE_PAGE_SIZE && !pastEnd && (
         <nav aria-label="Catalogue pages" className="mt-3 flex flex-wrap items-center gap-3 text-sm">
           <button type="button" className="btn-quiet" disabled={pageNumber <= 1} onClick={() => go(pageNumber - 1)}>
             ← Previous 50

@@ -67,12 +67,19 @@ function TextForm({ exhibit }: { exhibit: Exhibit }) {
         <Field label="Units" htmlFor="ex-units">
           <input id="ex-units" className="field" {...form.register('units')} />
         </Field>
-        <Field label="Chart" htmlFor="ex-kind">
-          <select id="ex-kind" className="field" disabled={exhibit.live?.chartKind === 'compare' || exhibit.live?.chartKind === 'range'} {...form.register('chartKind')}>
-            <option value="cycle">the cycle (gap)</option>
-            <option value="trend">the series and its trend</option>
-          </select>
-        </Field>
+        {exhibit.live?.chartKind === 'range' || exhibit.live?.chartKind === 'compare' ? (
+          <div>
+            <span className="label">Chart</span>
+            <p className="text-sm">{exhibit.live.chartKind === 'range' ? 'the range across methods, with their median' : 'the cycles compared'}</p>
+          </div>
+        ) : (
+          <Field label="Chart" htmlFor="ex-kind">
+            <select id="ex-kind" className="field" {...form.register('chartKind')}>
+              <option value="cycle">the cycle (gap)</option>
+              <option value="trend">the series and its trend</option>
+            </select>
+          </Field>
+        )}
       </div>
       <div className="grid grid-cols-2 gap-2">
         <Field label="Number" htmlFor="ex-number">

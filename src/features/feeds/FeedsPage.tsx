@@ -79,7 +79,7 @@ function FeedCard({ feed, open, onToggle }: { feed: Feed; open: boolean; onToggl
             {open ? 'Hide runs' : 'Runs'}
           </button>
           {feed.schedule && (
-            <button className="btn-quiet" disabled={update.isPending} onClick={pause}>
+            <button className="btn-quiet" aria-disabled={update.isPending} onClick={() => !update.isPending && pause()}>
               {feed.enabled ? 'Pause schedule' : 'Resume schedule'}
             </button>
           )}
