@@ -161,6 +161,8 @@ describe('Catalogue page in pages', () => {
     await page.goto(`${t.url}/studies/${id}`);
     await page.getByRole('tab', { name: 'Compare' }).click();
     await page.getByLabel('This method across series').check();
+    const refused: number[] = [];
+    page.on('response', (r) => void (r.url().endsWith('/api/v1/studies/compare') && r.status() >= 400 && refused.push(r.status())));
     const add = page.getByLabel('Add a series');
     await pickSeries(add, 'est_ip', 'EST_IP', 'keyboard', true);
     await pickSeries(add, 'credit-to', 'EST_CREDIT_GDP', 'click', true);
@@ -172,11 +174,16 @@ describe('Catalogue page in pages', () => {
     await expect.poll(async () => (await listbox.getAttribute('aria-busy')) === 'false' && (await listbox.getByRole('option', { disabled: true }).allInnerTexts()).map((x) => x.split(' ')[0])).toEqual(['EST_CREDIT_GDP', 'EST_GDP_REAL', 'EST_IP']);
     expect(await listbox.getByRole('option', { disabled: true }).first().innerText()).toMatch(/already chosen/);
     await add.press('Escape');
-    // Monthly and quarterly lines: compared once a common frequency is chosen.
+    // Monthly and quarterly lines: the question first, no refusal shown; compared once a common frequency is chosen.
+    await page.getByTestId('common-frequency').waitFor();
     await page.getByLabel('Common frequency').selectOption('Q');
     await page.getByTestId('compare-chart').locator('canvas').first().waitFor({ timeout: 30_000 });
     await page.getByRole('button', { name: 'Remove EST_IP' }).click();
     expect(await page.getByTestId('common-frequency').count()).toBe(0);
+    // Focus goes back to the box that adds series.
+    expect(await add.evaluate((el) => el === document.activeElement)).toBe(true);
+    // Nothing was asked of the server before the common frequency was chosen, so nothing was refused.
+    expect(refused).toEqual([]);
     expect(errors).toEqual([]);
   });
 });

@@ -42,7 +42,8 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
     });
   }, [mode, methods, lines, spec, frequency, catalogue, target, code]);
   const lagFreq = target ?? frequency;
-  const body = items.length ? { items, reference: Math.min(reference, items.length - 1), maxLag: lagFreq === 'M' ? 12 : lagFreq === 'Q' ? 8 : 3, ...(target ? { frequency: target } : {}) } : null;
+  // Series of mixed frequencies wait for the person to choose a common one: nothing is asked before.
+  const body = items.length && !(mixed && !common) ? { items, reference: Math.min(reference, items.length - 1), maxLag: lagFreq === 'M' ? 12 : lagFreq === 'Q' ? 8 : 3, ...(target ? { frequency: target } : {}) } : null;
   const cmp = useCompare(body);
   const units = [...new Set(cmp.data?.items.map((it) => it.unitOfCycle) ?? [])];
   const option = useMemo(
@@ -89,7 +90,12 @@ export function CompareView({ spec, frequency }: { spec: StudySpec; frequency: F
               {others.map((s) => (
                 <li key={s.id} className="tag gap-1 border-trend bg-trend-light text-ink">
                   {s.code}
-                  <button type="button" className="ml-1 rounded px-1 hover:bg-paper" aria-label={`Remove ${s.code}`} onClick={() => setOthers(others.filter((x) => x.id !== s.id))}>
+                  <button type="button" className="ml-1 rounded px-1 hover:bg-paper" aria-label={`Remove ${s.code}`} onClick={() => {
+                      setOthers(others.filter((x) => x.id !== s.id));
+                      // The chip and its button are gone: focus goes back to the box that adds series.
+                      document.getElementById('compare-add')?.focus();
+                    }}
+                  >
                     ×
                   </button>
                 </li>
