@@ -93,11 +93,13 @@ export function chartSummary(d: ChartData, format: (v: number) => string): strin
   const b = withValue.lastIndexOf(true);
   if (a < 0) return 'The chart has no values.';
   const unit = d.unit ? ` ${d.unit}` : '';
-  const span = d.x === 'Period' ? `${b - a + 1} periods from ${d.rows[a]} to ${d.rows[b]}.` : `${d.x} from ${d.rows[a]} to ${d.rows[b]}.`;
+  // Values along a value axis (the gain curve's periods) are read as numbers, in the charts' format.
+  const xText = (x: string) => (d.x !== 'Period' && Number.isFinite(Number(x)) && x.trim() !== '' ? format(Number(x)) : x);
+  const span = d.x === 'Period' ? `${b - a + 1} periods from ${d.rows[a]} to ${d.rows[b]}.` : `${d.x} from ${xText(d.rows[a])} to ${xText(d.rows[b])}.`;
   const latest = d.lines.slice(0, MAX_NAMED).flatMap((l) => {
     let i = l.values.length - 1;
     while (i >= 0 && l.values[i] === null) i--;
-    return i < 0 ? [] : [{ name: l.name, value: format(l.values[i]!), row: d.rows[i] }];
+    return i < 0 ? [] : [{ name: l.name, value: format(l.values[i]!), row: xText(d.rows[i]) }];
   });
   const sameRow = latest.every((x) => x.row === latest[0]?.row);
   let last = '';

@@ -141,6 +141,8 @@ describe('Catalogue page in pages', () => {
     expect(await page.locator(`#${await box.getAttribute('aria-activedescendant')}`).innerText()).toMatch(/^PG_129 /);
     await box.press('Enter');
     expect(await box.inputValue()).toBe('PG_12');
+    // …and says why.
+    expect(await page.getByRole('status').filter({ hasText: 'cannot be chosen' }).innerText()).toBe('PG_129 cannot be chosen: no release of it is loaded yet.');
     // Escape closes the list; a second Escape gives back what the box showed before typing.
     await box.press('Escape');
     expect(await box.getAttribute('aria-expanded')).toBe('false');

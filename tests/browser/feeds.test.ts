@@ -61,7 +61,7 @@ describe('a steward registers and runs a feed', () => {
     await page.keyboard.press('Enter');
     const result = card.getByTestId('feed-run-result');
     await result.waitFor({ timeout: 30_000 });
-    expect(await result.innerText()).toMatch(/^New vintages stored\. 1 new vintage stored \(FK_HOURS 1\)\.$/);
+    expect(await result.innerText()).toMatch(/^1 new vintage stored \(FK_HOURS 1\)\.$/);
     expect(await result.evaluate((el) => el === document.activeElement)).toBe(true);
     expect(await result.innerText()).toContain('FK_HOURS 1');
     const runs = card.getByTestId('feed-runs');

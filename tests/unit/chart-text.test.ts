@@ -59,6 +59,10 @@ describe('chart text alternatives', () => {
     expect(d.rows).toEqual(['2', '4', '40', '100']);
     expect(d.lines[0].values).toEqual([1, 0.99, 0.5, 0.02]);
     expect(chartSummary(d, f)).toContain('Marked: cut-off 39.7 quarters.');
+    // Periods along the axis in the charts' own number format, not as 17 digits.
+    const long = chartData(gainChart({ periods: [2, 119.09065622071837], gain: [1, 0.01], cutoff: 39.7, word: 'quarters' }));
+    expect(chartSummary(long, f)).toMatch(/^period \(quarters\) from 2\.00 to 119\.1\. /);
+    expect(chartSummary(long, f)).not.toContain('119.0906562');
   });
 
   it('says so when a chart has no values', () => {

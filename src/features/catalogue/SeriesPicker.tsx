@@ -41,6 +41,8 @@ export function SeriesPicker({ id, value, onChange, needsVintage, exclude = [], 
   const [text, setText] = useState(chosenText);
   const [editing, setEditing] = useState(false);
   const [open, setOpen] = useState(false);
+  /** Said once when Enter meets an option that cannot be chosen. */
+  const [refusal, setRefusal] = useState('');
   const [active, setActive] = useState(-1);
   const q = useDebounced(editing ? text.trim() : '', 200);
   const page = useSeriesPage({ q: q || undefined, limit: PICKER_LIMIT }, open);
@@ -54,13 +56,18 @@ export function SeriesPicker({ id, value, onChange, needsVintage, exclude = [], 
     if (!editing) setText(chosenText);
   }, [chosenText, editing]);
   useEffect(() => setActive(-1), [q]);
+  useEffect(() => setRefusal(''), [q, active]);
   useEffect(() => {
     if (active >= 0) listRef.current?.querySelector(`#${CSS.escape(`${id}-opt-${active}`)}`)?.scrollIntoView({ block: 'nearest' });
   }, [active, id]);
 
   const blocked = (s: SeriesListItem) => (needsVintage && !s.latestVintage) || exclude.includes(s.id);
   const choose = (s: SeriesListItem) => {
-    if (blocked(s)) return;
+    if (blocked(s)) {
+      setRefusal(`${s.code} cannot be chosen: ${exclude.includes(s.id) ? 'it is chosen already' : 'no release of it is loaded yet'}.`);
+      return;
+    }
+    setRefusal('');
     onChange(s);
     setText(describe(s));
     setEditing(false);
@@ -94,7 +101,7 @@ export function SeriesPicker({ id, value, onChange, needsVintage, exclude = [], 
       }
     }
   };
-  const status = !open ? '' : !fresh ? 'Searching…' : `${page.data!.total} series match${page.data!.total > items.length ? `; the first ${items.length} are listed, type more to narrow` : ''}.`;
+  const status = !open ? '' : refusal ? refusal : !fresh ? 'Searching…' : `${page.data!.total} series match${page.data!.total > items.length ? `; the first ${items.length} are listed, type more to narrow` : ''}.`;
 
   return (
     <div className={`relative ${className ?? ''}`}>

@@ -55,7 +55,8 @@ function FeedCard({ feed, open, onToggle }: { feed: Feed; open: boolean; onToggl
   const runNow = () =>
     run.mutate(undefined, {
       onSuccess: (r) => {
-        const text = `${FEED_OUTCOME_WORDS[r.outcome]}. ${r.message ?? ''}`;
+        // A stored or unchanged run's message says it all; a failure leads with the outcome.
+        const text = r.message && (r.outcome === 'stored' || r.outcome === 'unchanged') ? r.message : `${FEED_OUTCOME_WORDS[r.outcome]}. ${r.message ?? ''}`;
         setLastResult(text);
         announce(`Feed ${feed.name}: ${text}`);
       },
