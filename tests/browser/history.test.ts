@@ -57,9 +57,11 @@ describe('a history load in the browser', () => {
     await page.getByRole('button', { name: 'Check the history' }).click();
     const preview = page.getByTestId('history-preview');
     await preview.waitFor();
-    // The first sheet holds notes only: nothing to store until the right sheet is picked.
-    expect(await page.getByLabel('Sheet').inputValue()).toBe('Notes');
-    expect(await preview.innerText()).toMatch(/Nothing to store|Fix the errors/);
+    // The first sheet holds notes only: the sheet with periods down its first column is read instead.
+    expect(await page.getByLabel('Sheet').inputValue()).toBe('Real output');
+    // Picking the notes sheet shows there is nothing to store there; picking the data again reads it.
+    await page.getByLabel('Sheet').selectOption('Notes');
+    await expect.poll(() => preview.innerText(), { timeout: 15_000 }).toMatch(/Nothing to store|Fix the errors/);
     await page.getByLabel('Sheet').selectOption('Real output');
     await expect.poll(() => page.getByTestId('history-layout').innerText(), { timeout: 15_000 }).toMatch(/Header row\s*4 \(found\)/i);
     expect(await page.getByTestId('history-layout').innerText()).toMatch(/Release-date row\s*3 \(found\)/i);
