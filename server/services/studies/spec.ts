@@ -1,13 +1,13 @@
 /** A study's specification run on its stored series: the check behind saving, and the start of every result. */
 import { aggregateByAverage } from '../../analysis/aggregate.js';
-import { AnalysisError, decompose, fromJsonResponse, type DecomposeRequest, type DecomposeResult } from '../../analysis/index.js';
+import { decompose, fromJsonResponse, type DecomposeRequest, type DecomposeResult } from '../../analysis/index.js';
 import type { Db } from '../../db.js';
 import type { Frequency } from '../../schemas/frequency.js';
 import type { StudySpec } from '../../schemas/studies.js';
 import { readSeriesValues } from '../catalogue/stored-values.js';
 import { vintageInForce } from '../catalogue/vintages.js';
 import type { AnalysisPool } from '../../workers/pool.js';
-import { inlineWork } from '../decompose.js';
+import { decomposeOnWorker, inlineWork } from '../decompose.js';
 
 export interface SpecOptions {
   /** Compare on this frequency (averaging a higher one into it). */
@@ -19,9 +19,9 @@ export interface SpecOptions {
 /** A decomposition on the request thread when it is small and cheap, else on a worker thread (without a pool, here). */
 async function decomposeAnywhere(request: DecomposeRequest, pool: AnalysisPool | undefined): Promise<DecomposeResult> {
   if (!pool || inlineWork(request.values.length, [request.method])) return decompose(request);
-  const answer = await pool.runSingle({ kind: 'single', request });
-  if (!answer.ok) throw new AnalysisError(answer.error.code, answer.error.message, answer.error.details);
-  return fromJsonResponse(JSON.parse(Buffer.from(answer.body).toString('utf8')));
+  // Studies are not charged to the per-account budget that POST /decompose pays (nothing spent).
+  const bytes = await decomposeOnWorker(pool, request, async () => {});
+  return fromJsonResponse(JSON.parse(Buffer.from(bytes).toString('utf8')));
 }
 
 /**
