@@ -13,6 +13,16 @@ import { ReviewPanel } from './ReviewPanel';
 import { ExhibitDownloads, ExhibitFigure } from './ExhibitFigure';
 import { useChronologies } from '@/features/chronology/api';
 
+/** What a study's exhibit draws, for the draft and text forms' Chart field. */
+export function ChartKindOptions() {
+  return (
+    <>
+      <option value="cycle">the cycle (gap)</option>
+      <option value="trend">the series and its trend</option>
+    </>
+  );
+}
+
 export function StateBadge({ state }: { state: ExhibitState }) {
   const tone: Record<ExhibitState, string> = {
     draft: 'border-hairline-strong text-ink-soft',
@@ -75,8 +85,7 @@ function TextForm({ exhibit }: { exhibit: Exhibit }) {
         ) : (
           <Field label="Chart" htmlFor="ex-kind">
             <select id="ex-kind" className="field" {...form.register('chartKind')}>
-              <option value="cycle">the cycle (gap)</option>
-              <option value="trend">the series and its trend</option>
+              <ChartKindOptions />
             </select>
           </Field>
         )}

@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { ErrorNote, Field, PageHeader } from '@/components/ui';
 import { useStudy } from '@/features/studies/api';
 import { useExhibitMutations } from './api';
+import { ChartKindOptions } from './ExhibitPage';
 
 const schema = z.object({ title: z.string().trim().min(1, 'Give it a title.').max(200), subtitle: z.string().max(300).optional(), notes: z.string().max(5000).optional(), chartKind: z.enum(['cycle', 'trend']) });
 
@@ -35,8 +36,7 @@ export function NewExhibitPage() {
         {studyId && !range && (
           <Field label="Chart" htmlFor="nx-kind">
             <select id="nx-kind" className="field" {...form.register('chartKind')}>
-              <option value="cycle">the cycle (gap)</option>
-              <option value="trend">the series and its trend</option>
+              <ChartKindOptions />
             </select>
           </Field>
         )}
