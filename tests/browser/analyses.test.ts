@@ -7,8 +7,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { TestServer } from '../helpers/app.js';
-import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
-import { pickSeries } from '../helpers/picker.js';
+import { openSuite, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { showRange } from '../helpers/range.js';
 import { signedIn } from '../helpers/session.js';
 
 let t: TestServer;
@@ -23,16 +23,8 @@ afterAll(() => suite?.close());
 describe('range and reliability', () => {
   it('shows the range across methods, then builds the reliability table by keyboard; fits a phone', async () => {
     const { page } = browser;
-    const errors: string[] = [];
-    page.on('pageerror', (e) => errors.push(String(e)));
-    await page.setViewportSize({ width: 1440, height: 1000 });
-    await signInAs(page, t.url, 'economist@demo.test');
-    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Range & reliability' }).click();
     // By keyboard: part of the code, the arrow keys to the series, Enter.
-    await pickSeries(page.getByLabel('Series'), 'est_gdp', 'EST_GDP_REAL', 'keyboard');
-    await page.getByRole('checkbox', { name: 'Unobserved components' }).uncheck();
-    await page.getByRole('button', { name: 'Show the range' }).click();
-    await page.getByTestId('range-chart').locator('canvas').first().waitFor({ timeout: 30_000 });
+    const errors = await showRange(page, t.url, 'est_gdp', 'EST_GDP_REAL', 'keyboard');
     expect(await page.getByTestId('range-caution').innerText()).toMatch(/not a forecast/);
     // The text alternative names the band's edges, the median and every method, never the filled difference.
     await page.getByTestId('range-result').getByRole('button', { name: /Data table/ }).click();

@@ -8,8 +8,8 @@ import os from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { TestServer } from '../helpers/app.js';
-import { openSuite, signInAs, type BrowserSession, type Suite } from '../helpers/browser.js';
-import { pickSeries } from '../helpers/picker.js';
+import { openSuite, type BrowserSession, type Suite } from '../helpers/browser.js';
+import { showRange } from '../helpers/range.js';
 
 let t: TestServer;
 let browser: BrowserSession;
@@ -25,15 +25,7 @@ const shot = (name: string) => path.join(os.tmpdir(), name);
 describe('range studies', () => {
   it('an economist saves the range as a study, reads it, and drafts a range exhibit from it; fits a phone', async () => {
     const { page } = browser;
-    const errors: string[] = [];
-    page.on('pageerror', (e) => errors.push(String(e)));
-    await page.setViewportSize({ width: 1440, height: 1000 });
-    await signInAs(page, t.url, 'economist@demo.test');
-    await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Range & reliability' }).click();
-    await pickSeries(page.getByLabel('Series'), 'GDP_RE', 'EST_GDP_REAL', 'click');
-    await page.getByRole('checkbox', { name: 'Unobserved components' }).uncheck();
-    await page.getByRole('button', { name: 'Show the range' }).click();
-    await page.getByTestId('range-chart').locator('canvas').first().waitFor({ timeout: 30_000 });
+    const errors = await showRange(page, t.url, 'GDP_RE', 'EST_GDP_REAL', 'click');
     await page.getByLabel('Study title').fill('Estuary: how far the gap estimates disagree');
     await page.getByRole('button', { name: 'Save as study' }).click();
 
